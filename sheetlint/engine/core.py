@@ -1,0 +1,255 @@
+"""Value types of the engine: known quantities with provenance, findings, relations.
+
+Everything inside the engine is an SI float. A :class:`Known` carries the value, its relative
+uncertainty (from how it was written, or propagated), where it came from, and its log-sensitivity
+to the given fields (so that a slip on one given field can be traced through derived values).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable, Iterator, Mapping
+from dataclasses import dataclass, field
+from typing import Any, ClassVar, Literal
+
+Severity = Literal["error", "warning", "info"]
+SEVERITY_RANK: dict[str, int] = {"info": 0, "warning": 1, "error": 2}
+
+GIVEN = "given"
+DERIVED = "derived"
+ESTIMATE = "estimate"
+
+
+@dataclass(slots=True)
+class Known:
+    """One known quantity of a sheet, in SI units.
+
+    ``uncertainty`` is relative (0.005 = ±0.5 %). ``sensitivity`` maps given fields to the
+    exponent with which this value depends on them (``{"rated.power": 1.0, "rated.speed": -1.0}``
+    for a torque derived from P/ω); ``None`` where the dependence is not a monomial.
+    """
+
+    value: float
+    uncertainty: float = 0.0
+    origin: str = GIVEN
+    rule: str | None = None
+    inputs: tuple[str, ...] = ()
+    basis: str | None = None
+    basis_stated: bool = False
+    temperature: float | None = None  # reference temperature of the value, kelvin
+    text: str | None = None
+    note: str | None = None
+    sensitivity: dict[str, float] | None = None
+
+    @property
+    def is_estimate(self) -> bool:
+        return self.origin == ESTIMATE
+
+    @property
+    def is_given(self) -> bool:
+        return self.origin == GIVEN
+
+
+@dataclass(slots=True)
+class Derivation:
+    """A value a relation can fill in: ``field = value`` from ``inputs``."""
+
+    field: str
+    value: float
+    uncertainty: float
+    inputs: tuple[str, ...]
+    estimate: bool = False
+    note: str | None = None
+    sensitivity: dict[str, float] | None = None
+
+
+@dataclass(slots=True)
+class Finding:
+    """A plain result value; reporters format it, nothing else computes from it."""
+
+    rule: str
+    severity: Severity
+    message: str
+    fields: tuple[str, ...] = ()
+    expected: dict[str, str] = field(default_factory=dict)
+    actual: dict[str, str] = field(default_factory=dict)
+    deviation: float | None = None
+    cause: str | None = None
+    source: str = ""
+    location: dict[str, Any] | None = None
+    suppressed: str | None = None  # the reason, when a suppression in the record covers it
+
+    def to_dict(self) -> dict[str, Any]:
+        out: dict[str, Any] = {
+            "rule": self.rule,
+            "severity": self.severity,
+            "message": self.message,
+            "fields": list(self.fields),
+            "expected": dict(self.expected),
+            "actual": dict(self.actual),
+            "deviation": None if self.deviation is None else round(self.deviation, 6),
+            "cause": self.cause,
+            "source": self.source,
+            "location": self.location,
+        }
+        if self.suppressed is not None:
+            out["suppressed"] = self.suppressed
+        return out
+
+
+@dataclass(slots=True)
+class Settings:
+    """Engine settings merged from defaults, configuration files and the command line."""
+
+    select: frozenset[str] | None = None
+    ignore: frozenset[str] = frozenset()
+    options: dict[str, dict[str, Any]] = field(default_factory=dict)
+
+    def option(self, rule: str, name: str, default: Any) -> Any:
+        return self.options.get(rule, {}).get(name, default)
+
+    def enabled(self, rule: str) -> bool:
+        if rule in self.ignore:
+            return False
+        return self.select is None or rule in self.select
+
+
+class Sheet:
+    """The engine's view of one record: known SI values plus non-physical attributes."""
+
+    __slots__ = ("attributes", "derived_by", "findings", "locate", "record_id", "settings",
+                 "values")
+
+    def __init__(
+        self,
+        record_id: str,
+        values: dict[str, Known],
+        attributes: Mapping[str, Any],
+        settings: Settings | None = None,
+        locate: Callable[[str], dict[str, Any] | None] | None = None,
+    ) -> None:
+        self.record_id = record_id
+        self.values = values
+        self.attributes = dict(attributes)
+        self.settings = settings or Settings()
+        self.locate = locate or (lambda _field: None)
+        self.findings: list[Finding] = []
+
+    # --- access -------------------------------------------------------------------------
+    def get(self, name: str) -> Known | None:
+        return self.values.get(name)
+
+    def has(self, *names: str) -> bool:
+        values = self.values
+        return all(n in values for n in names)
+
+    def value(self, name: str) -> float:
+        return self.values[name].value
+
+    def attr(self, name: str, default: Any = None) -> Any:
+        return self.attributes.get(name, default)
+
+    def usable(self, rule: str, *names: str, allow_estimates: bool = False) -> bool:
+        """All ``names`` known, none derived by ``rule`` itself, none an estimate (unless allowed)."""
+        values = self.values
+        for n in names:
+            k = values.get(n)
+            if k is None or k.rule == rule:
+                return False
+            if k.origin == ESTIMATE and not allow_estimates:
+                return False
+        return True
+
+    def given(self, name: str) -> bool:
+        k = self.values.get(name)
+        return k is not None and k.origin == GIVEN
+
+    def option(self, rule: str, name: str, default: Any) -> Any:
+        return self.settings.option(rule, name, default)
+
+    def finding(
+        self,
+        relation: Relation,
+        severity: Severity,
+        message: str,
+        fields: tuple[str, ...] | list[str],
+        expected: Mapping[str, float] | None = None,
+        actual: Mapping[str, float] | None = None,
+        deviation: float | None = None,
+        cause: str | None = None,
+        source: str | None = None,
+        expected_text: Mapping[str, str] | None = None,
+        actual_text: Mapping[str, str] | None = None,
+    ) -> Finding:
+        """Build a finding; SI values in ``expected``/``actual`` are shown in display units."""
+        from sheetlint.fields import display
+
+        exp = {k: display(k, v) for k, v in (expected or {}).items()}
+        act = {k: display(k, v) for k, v in (actual or {}).items()}
+        exp.update(expected_text or {})
+        act.update(actual_text or {})
+        fields = tuple(fields)
+        location = None
+        for f in fields:
+            location = self.locate(f)
+            if location:
+                break
+        return Finding(relation.rule, severity, message, fields, exp, act, deviation, cause,
+                       source if source is not None else relation.source, location)
+
+
+class Relation:
+    """A physical relation between fields of a sheet.
+
+    Subclasses declare their identity as class attributes and implement ``derive`` (values the
+    relation can fill in) and ``check`` (findings when the sheet contradicts it). The class
+    docstring is the rule's documentation (``sheetlint explain RULE``): what it checks, why it
+    matters, an example that fails, the fix, references.
+    """
+
+    rule: ClassVar[str]
+    title: ClassVar[str]
+    equation: ClassVar[str]
+    fields: ClassVar[tuple[str, ...]] = ()
+    kind: ClassVar[str] = "exact"  # exact | bound | band | model | table | correction | safety
+    severity_policy: ClassVar[str] = ""
+    source: ClassVar[str] = ""
+    status: ClassVar[str] = "stable"  # stable | preview
+    #: relations are run in ascending order of ``order`` within each derive round and check
+    order: ClassVar[int] = 50
+
+    def derive(self, sheet: Sheet) -> Iterator[Derivation]:
+        return iter(())
+
+    def check(self, sheet: Sheet) -> Iterator[Finding]:
+        return iter(())
+
+
+def relative_uncertainty_sum(sheet: Sheet, names: tuple[str, ...] | list[str],
+                             exponents: Mapping[str, float] | None = None) -> float:
+    """Worst-case relative uncertainty of a monomial of ``names`` (exponents default to 1)."""
+    total = 0.0
+    for n in names:
+        k = sheet.values.get(n)
+        if k is not None:
+            total += abs(exponents.get(n, 1.0) if exponents else 1.0) * k.uncertainty
+    return total
+
+
+def combine_sensitivity(parts: Mapping[str, float], sheet: Sheet) -> dict[str, float] | None:
+    """Sensitivity of a monomial ``prod(x_i ** a_i)`` to the given fields."""
+    out: dict[str, float] = {}
+    for name, exponent in parts.items():
+        k = sheet.values.get(name)
+        if k is None or k.sensitivity is None:
+            return None
+        for g, s in k.sensitivity.items():
+            out[g] = out.get(g, 0.0) + exponent * s
+    return {g: s for g, s in out.items() if abs(s) > 1e-12}
+
+
+def log_ratio(actual: float, expected: float) -> float:
+    """ln(actual/expected), or inf when either is not positive."""
+    if actual <= 0.0 or expected <= 0.0:
+        return math.inf
+    return math.log(actual / expected)

@@ -1,0 +1,5 @@
+"""Relation families. Each module registers its relations with ``@register``; list new ones here."""
+
+from sheetlint.relations import (  # noqa: F401
+    mechanics,
+)

@@ -1,0 +1,44 @@
+"""The registry of relations: each relation module registers its classes with ``@register``.
+
+Adding a relation touches one place: its class, in the module of its physical family, with the
+``@register`` decorator. The family modules are listed once in ``sheetlint/relations/__init__.py``.
+"""
+
+from __future__ import annotations
+
+from typing import TypeVar
+
+from sheetlint.engine.core import Relation
+
+R = TypeVar("R", bound=type[Relation])
+
+_RELATIONS: dict[str, Relation] = {}
+_ORDER: list[Relation] = []
+
+
+def register(cls: R) -> R:
+    """Class decorator: instantiate the relation once and add it to the registry."""
+    instance = cls()
+    # several relation objects may share one rule id (e.g. per-point variants); keep all
+    _ORDER.append(instance)
+    _RELATIONS.setdefault(cls.rule, instance)
+    return cls
+
+
+def all_relations() -> list[Relation]:
+    """Every registered relation, in a stable order (``order`` then registration)."""
+    from sheetlint import relations  # noqa: F401  (imports the family modules)
+
+    return sorted(_ORDER, key=lambda r: r.order)
+
+
+def relation_for(rule: str) -> Relation | None:
+    all_relations()
+    return _RELATIONS.get(rule)
+
+
+def rule_ids() -> list[str]:
+    seen: dict[str, None] = {}
+    for r in all_relations():
+        seen.setdefault(r.rule, None)
+    return list(seen)
