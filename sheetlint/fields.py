@@ -108,6 +108,8 @@ for _spec in (
     _f("machine.altitude", "length", True, "site altitude"),
     _f("machine.mass", "mass", False, "mass"),
     _f("machine.inertia", "inertia", False, "rotor moment of inertia"),
+    _f("machine.rotor_diameter", "length", False, "rotor outer diameter"),
+    _f("machine.stack_length", "length", False, "active (stack) length"),
     _f("emf.constant", "emf_constant", False, "back-EMF constant Ke"),
     _f("emf.voltage", "voltage", False, "back-EMF at emf.speed"),
     _f("emf.speed", "speed", True, "speed of emf.voltage"),
