@@ -150,7 +150,7 @@ class Sheet:
         return self.attributes.get(name, default)
 
     def usable(self, rule: str, *names: str, allow_estimates: bool = False) -> bool:
-        """All ``names`` known, none derived by ``rule`` itself, none an estimate (unless allowed)."""
+        """All ``names`` known, none derived by ``rule`` itself, none an estimate unless allowed."""
         values = self.values
         for n in names:
             k = values.get(n)

@@ -1,5 +1,8 @@
 """Relation families. Each module registers its relations with ``@register``; list new ones here."""
 
 from sheetlint.relations import (  # noqa: F401
+    basics,
+    electrical,
+    emf,
     mechanics,
 )

@@ -1,0 +1,5 @@
+import sys
+
+from sheetlint.cli import main
+
+sys.exit(main())

@@ -1,0 +1,203 @@
+"""From a validated record to the engine's sheet: canonical bases, SI floats, attributes.
+
+Canonical bases inside the engine (DESIGN.md "Bases"): voltages and back-EMF line-to-line rms;
+currents rms; Ke in V(line rms) per mechanical rad/s; Kt per rms ampere; resistance and
+inductance per phase of the equivalent star (a terminal-to-terminal value is twice the phase
+value for star and delta alike; a delta branch is three times the star-equivalent phase value).
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+from typing import Any
+
+from sheetlint.engine.core import Finding, Known, Settings, Sheet
+from sheetlint.fields import BASES, FIELDS, KINDS, POINT_FIELDS, spec_for
+from sheetlint.model import SECTIONS, MachineRecord, Measured
+
+SQRT2 = math.sqrt(2.0)
+SQRT3 = math.sqrt(3.0)
+ROOM = 293.15  # 20 °C, the default reference temperature of R and of the back-EMF
+
+#: value in the stated basis × factor = value in the canonical basis
+BASIS_FACTOR: dict[str, dict[str, float]] = {
+    "voltage": {"line_rms": 1.0, "line_peak": 1 / SQRT2, "phase_rms": SQRT3,
+                "phase_peak": SQRT3 / SQRT2},
+    "emf_constant": {"line_rms": 1.0, "line_peak": 1 / SQRT2, "phase_rms": SQRT3,
+                     "phase_peak": SQRT3 / SQRT2},
+    "current": {"rms": 1.0, "peak": 1 / SQRT2},
+    "torque_constant": {"rms": 1.0, "peak": SQRT2},
+    "resistance": {"phase": 1.0, "line": 0.5, "delta_branch": 1 / 3},
+    "inductance": {"phase": 1.0, "line": 0.5},
+}
+
+_CLASS_LETTERS = {"A": 105, "E": 120, "B": 130, "F": 155, "H": 180, "N": 200, "R": 220}
+
+
+def thermal_class_number(value: Any) -> int | str | None:
+    """IEC 60085 class as a number (letters B/F/H accepted); the text itself when unknown."""
+    if value is None:
+        return None
+    if isinstance(value, int):
+        return value
+    text = str(value).strip().upper().removeprefix("CLASS").strip()
+    if text in _CLASS_LETTERS:
+        return _CLASS_LETTERS[text]
+    try:
+        number = float(text.rstrip("°C").strip())
+    except ValueError:
+        return str(value)
+    return int(number) if number.is_integer() else str(value)
+
+
+def _known(path: str, m: Measured, temperature: float | None = None) -> Known:
+    spec = spec_for(path)
+    kind = spec.kind if spec else "ratio"
+    factor = 1.0
+    basis = m.basis
+    if kind in BASES:
+        factor = BASIS_FACTOR[kind][basis or BASES[kind][0]]
+    return Known(
+        m.value * factor,
+        m.reading.uncertainty,
+        basis=basis or (BASES[kind][0] if kind in BASES else None),
+        basis_stated=basis is not None,
+        temperature=temperature if temperature is not None else m.temperature,
+        text=f"{m.reading.text} {m.reading.unit}".strip(),
+        sensitivity={path: 1.0},
+    )
+
+
+def build_sheet(record: MachineRecord, settings: Settings | None = None,
+                locate: Any = None) -> tuple[Sheet, list[Finding]]:
+    """The sheet of a validated record, and notes about unknown fields (info / warning)."""
+    values: dict[str, Known] = {}
+    notes: list[Finding] = []
+
+    def put(path: str, m: Measured | None, temperature: float | None = None) -> None:
+        if m is not None:
+            values[path] = _known(path, m, temperature)
+
+    machine, rated, emf = record.machine, record.rated, record.emf
+    for name in POINT_FIELDS:
+        put(f"rated.{name}", getattr(rated, name))
+    for i, point in enumerate(record.points):
+        for name in POINT_FIELDS:
+            put(f"points[{i}].{name}", getattr(point, name))
+    put("rated.temperature_rise", rated.temperature_rise)
+    put("rated.magnet_temperature", rated.magnet_temperature)
+    if rated.losses is not None:
+        put("rated.losses", rated.losses)
+        for part, m in rated.losses.extras.items():
+            put(f"rated.losses.{part}", m)
+    for name in ("poles", "pole_pairs", "phases"):
+        raw = getattr(machine, name)
+        if raw is not None:
+            values[f"machine.{name}"] = Known(float(raw), 0.0, text=str(raw),
+                                              sensitivity={f"machine.{name}": 1.0})
+    if machine.ambient is not None:
+        put("machine.ambient", machine.ambient)
+        if "min" in machine.ambient.extras:
+            put("machine.ambient.min", machine.ambient.extras["min"])
+    for name in ("altitude", "mass", "inertia", "rotor_diameter", "stack_length"):
+        put(f"machine.{name}", getattr(machine, name))
+    magnet_temperature = emf.magnet_temperature.value if emf.magnet_temperature else ROOM
+    put("emf.magnet_temperature", emf.magnet_temperature)
+    put("emf.constant", emf.constant, magnet_temperature)
+    put("emf.voltage", emf.voltage, magnet_temperature)
+    put("emf.speed", emf.speed)
+    if emf.flux_linkage is not None:
+        put("emf.flux_linkage", emf.flux_linkage,
+            emf.flux_linkage.temperature or magnet_temperature)
+    if record.torque_constant is not None:
+        put("torque_constant", record.torque_constant,
+            record.torque_constant.magnet_temperature)
+    circuit = record.circuit
+    if circuit.resistance is not None:
+        put("circuit.resistance", circuit.resistance, circuit.resistance.temperature or ROOM)
+    put("circuit.ld", circuit.ld)
+    put("circuit.lq", circuit.lq)
+    limits = record.limits
+    for name in ("max_speed", "peak_torque", "peak_current"):
+        put(f"limits.{name}", getattr(limits, name))
+    put("supply.mains_voltage", record.supply.mains_voltage)
+    put("supply.dc_link_voltage", record.supply.dc_link_voltage)
+
+    attributes: dict[str, Any] = {
+        "id": record.id,
+        "maker": record.maker,
+        "machine.topology": machine.topology,
+        "machine.connection": machine.connection,
+        "machine.thermal_class": thermal_class_number(machine.thermal_class),
+        "machine.temperature_rise_class": thermal_class_number(machine.temperature_rise_class),
+        "machine.cooling": machine.cooling.strip().upper() if machine.cooling else None,
+        "machine.duty": machine.duty.strip().upper() if machine.duty else None,
+        "machine.magnet": {"ndfeb": "NdFeB", "smco": "SmCo", "ferrite": "ferrite"}[
+            machine.magnet or "ndfeb"],
+        "machine.conductor": "aluminium" if machine.conductor in ("aluminium", "aluminum")
+        else "copper",
+        "efficiency_class": record.efficiency_class.value.strip().upper()
+        if record.efficiency_class else None,
+        "efficiency_class.standard": record.efficiency_class.standard
+        if record.efficiency_class else None,
+        "points.count": len(record.points),
+        "limits.peak_torque.duration": limits.peak_torque.duration
+        if limits.peak_torque is not None else None,
+        "limits.peak_current.duration": limits.peak_current.duration
+        if limits.peak_current is not None else None,
+        "suppress": [(s.rule, s.reason, s.field) for s in record.suppress],
+    }
+    sheet = Sheet(record.id, values, attributes, settings, locate)
+    notes.extend(_unknown_field_notes(record, sheet))
+    return sheet, notes
+
+
+def _unknown_field_notes(record: MachineRecord, sheet: Sheet) -> list[Finding]:
+    from sheetlint.relations.basics import UnknownFields
+
+    rule = UnknownFields()
+    out: list[Finding] = []
+    sections: list[tuple[str, Any]] = [("", record)]
+    sections += [(name, getattr(record, name)) for name in SECTIONS]
+    sections += [(f"points[{i}]", p) for i, p in enumerate(record.points)]
+    for prefix, model in sections:
+        extra = model.model_extra or {}
+        known = list(type(model).model_fields)
+        for name in extra:
+            path = f"{prefix}.{name}" if prefix else name
+            if "." in name and not prefix:
+                close = difflib.get_close_matches(name, list(FIELDS), n=1, cutoff=0.8)
+            else:
+                close = difflib.get_close_matches(name, known, n=1, cutoff=0.8)
+            if close:
+                meant = f"{prefix}.{close[0]}" if prefix else close[0]
+                out.append(sheet.finding(rule, "warning",
+                                         f"unknown field '{path}' looks like a misspelling of "
+                                         f"'{meant}'; its value was not used", (path,)))
+            else:
+                out.append(sheet.finding(rule, "info", f"field '{path}' is not part of the "
+                                         "schema; kept but not checked", (path,)))
+    for path, m in _measured_fields(record):
+        for q in m.unknown_qualifiers:
+            out.append(sheet.finding(rule, "info", f"qualifier '{q}' of {path} is not part of "
+                                     "the schema; kept but not used", (path,)))
+    return out
+
+
+def _measured_fields(record: MachineRecord) -> list[tuple[str, Measured]]:
+    out: list[tuple[str, Measured]] = []
+    for name in SECTIONS:
+        section = getattr(record, name)
+        for field_name in type(section).model_fields:
+            value = getattr(section, field_name)
+            if isinstance(value, Measured) and value.unknown_qualifiers:
+                out.append((f"{name}.{field_name}", value))
+    if record.torque_constant is not None and record.torque_constant.unknown_qualifiers:
+        out.append(("torque_constant", record.torque_constant))
+    return out
+
+
+def display_kind(path: str) -> str:
+    spec = spec_for(path)
+    return KINDS[spec.kind].display_unit if spec else ""

@@ -1,0 +1,203 @@
+"""The pipeline for one record and one file: validate, build the sheet, screen, derive, check.
+
+intake → model → engine → report, in one direction. Nothing here formats output.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Any
+
+from pydantic import ValidationError
+
+from sheetlint.engine.build import build_sheet
+from sheetlint.engine.causes import diagnose
+from sheetlint.engine.core import (
+    DERIVED,
+    ESTIMATE,
+    GIVEN,
+    SEVERITY_RANK,
+    Finding,
+    Known,
+    Settings,
+    Sheet,
+)
+from sheetlint.engine.monomial import Evaluation, Monomial
+from sheetlint.fields import KINDS, spec_for
+from sheetlint.intake.records import RawRecord
+from sheetlint.model import MachineRecord
+from sheetlint.relations.registry import all_relations
+
+MAX_DERIVE_ROUNDS = 12
+
+
+@dataclass(slots=True)
+class RecordResult:
+    id: str
+    error: str | None = None
+    findings: list[Finding] = field(default_factory=list)
+    derived: dict[str, Known] = field(default_factory=dict)
+    sheet: Sheet | None = None
+    index: int | None = None
+
+
+def validation_message(exc: ValidationError, data: Any) -> str:
+    """One line per problem: field path, what is wrong, the offending text."""
+    parts = []
+    for err in exc.errors()[:5]:
+        path = _loc_text(err.get("loc", ()))
+        msg = err.get("msg", "invalid").removeprefix("Value error, ")
+        found = err.get("input")
+        shown = ""
+        if err.get("type") == "missing":
+            msg = "required field is missing"
+        elif isinstance(found, (str, int, float)) and not isinstance(found, bool):
+            text = str(found)
+            if text not in msg:
+                shown = f" (found '{text[:60]}')"
+        parts.append(f"{path or '(record)'}: {msg}{shown}")
+    more = len(exc.errors()) - 5
+    if more > 0:
+        parts.append(f"... and {more} more")
+    return "; ".join(parts)
+
+
+def _loc_text(loc: tuple[Any, ...]) -> str:
+    out = ""
+    for part in loc:
+        if isinstance(part, int):
+            out += f"[{part}]"
+        elif str(part).startswith(("function-", "tagged-union")):
+            continue
+        else:
+            out += ("." if out else "") + str(part)
+    return out
+
+
+def check_record(raw: RawRecord, settings: Settings | None = None) -> RecordResult:
+    """Validate and check one raw record; never raises for bad input."""
+    data = raw.data
+    record_id = str(data.get("id")) if isinstance(data, dict) and data.get("id") else None
+    label = record_id or (f"records[{raw.index}]" if raw.index is not None else "(record)")
+    if not isinstance(data, dict):
+        return RecordResult(label, f"expected a mapping, found {type(data).__name__}",
+                            index=raw.index)
+    try:
+        record = MachineRecord.model_validate(data)
+    except ValidationError as exc:
+        return RecordResult(label, validation_message(exc, data), index=raw.index)
+    return run_engine(record, settings, raw.locate, raw.index)
+
+
+def run_engine(record: MachineRecord, settings: Settings | None = None, locate: Any = None,
+               index: int | None = None) -> RecordResult:
+    settings = settings or Settings()
+    sheet, notes = build_sheet(record, settings, locate)
+    relations = [r for r in all_relations()]
+    findings: list[Finding] = list(notes)
+    for relation in relations:
+        screen = getattr(relation, "screen", None)
+        if screen is not None:
+            findings.extend(screen(sheet))
+    derive(sheet, relations)
+    evaluations: list[Evaluation] = []
+    for relation in relations:
+        if isinstance(relation, Monomial):
+            for variant in relation.variants(sheet):
+                evaluation = variant.evaluate(sheet)
+                if evaluation is None:
+                    continue
+                evaluations.append(evaluation)
+                if abs(evaluation.residual) > evaluation.tolerance:
+                    evaluation.finding = variant.failure(sheet, evaluation)
+            continue
+        findings.extend(relation.check(sheet))
+    findings.extend(_explain_failures(sheet, evaluations))
+    findings.extend(sheet.findings)
+    findings = [f for f in findings if settings.enabled(f.rule) or f.rule == "unreadable"]
+    _apply_suppressions(sheet, findings)
+    findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))
+    derived = {name: k for name, k in sheet.values.items() if k.origin != GIVEN}
+    return RecordResult(record.id, None, findings, derived, sheet, index)
+
+
+def derive(sheet: Sheet, relations: list[Any]) -> None:
+    """Run every relation's ``derive`` until no new value appears (a fixed point)."""
+    values = sheet.values
+    for _ in range(MAX_DERIVE_ROUNDS):
+        changed = False
+        for relation in relations:
+            for d in relation.derive(sheet):
+                if d.field in values or not math.isfinite(d.value):
+                    continue
+                values[d.field] = Known(
+                    d.value, d.uncertainty, ESTIMATE if d.estimate else DERIVED, relation.rule,
+                    d.inputs, note=d.note, sensitivity=d.sensitivity,
+                    temperature=getattr(d, "temperature", None))
+                changed = True
+        if not changed:
+            return
+
+
+def _explain_failures(sheet: Sheet, evaluations: list[Evaluation]) -> list[Finding]:
+    """Findings of failing monomial relations, with the cause and severity the slips decide."""
+    causes = diagnose(sheet, evaluations)
+    out: list[Finding] = []
+    for i, evaluation in enumerate(evaluations):
+        finding = evaluation.finding
+        if finding is None:
+            continue
+        candidates = causes.get(i, [])
+        if candidates:
+            finding.cause = "; or ".join(c.text() for c in candidates[:3])
+            if len(candidates) == 1 or len({c.field for c in candidates}) == 1:
+                cause = candidates[0]
+                known = sheet.get(cause.field)
+                if cause.slip.basis and known is not None and not known.basis_stated:
+                    finding.severity = "warning"
+                    finding.message += (f"; the sheet does not state the basis of "
+                                        f"{cause.field}: please state it")
+                if cause.field not in finding.fields:
+                    finding.fields = (*finding.fields, cause.field)
+        out.append(finding)
+    return out
+
+
+def _apply_suppressions(sheet: Sheet, findings: list[Finding]) -> None:
+    entries = sheet.attr("suppress") or []
+    if not entries:
+        return
+    used: set[int] = set()
+    for f in findings:
+        for i, (rule, reason, field_name) in enumerate(entries):
+            if rule == f.rule and (field_name is None or field_name in f.fields):
+                f.suppressed = reason
+                used.add(i)
+                break
+    from sheetlint.relations.basics import UnknownFields
+
+    marker = UnknownFields()
+    for i, (rule, _reason, _field) in enumerate(entries):
+        if i not in used:
+            findings.append(sheet.finding(marker, "info", f"suppression of '{rule}' no longer "
+                                          "matches any finding; remove it", ("suppress",)))
+
+
+def derived_payload(derived: dict[str, Known]) -> dict[str, Any]:
+    """The ``derived`` object of the JSON output contract."""
+    out: dict[str, Any] = {}
+    for name, k in derived.items():
+        spec = spec_for(name)
+        kind = KINDS[spec.kind] if spec else KINDS["ratio"]
+        if kind.name == "temperature":
+            value, unit = k.value - 273.15, "degC"
+        else:
+            value, unit = k.value / kind.display_factor, kind.display_unit
+        entry: dict[str, Any] = {"value": float(f"{value:.6g}"), "unit": unit,
+                                 "estimate": k.origin == ESTIMATE, "rule": k.rule,
+                                 "from": list(k.inputs)}
+        if k.note:
+            entry["note"] = k.note
+        out[name] = entry
+    return out

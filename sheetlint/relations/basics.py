@@ -1,0 +1,108 @@
+"""Screening relations: physically possible values, and fields the schema does not know."""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+
+from sheetlint.engine.core import Finding, Relation, Sheet
+from sheetlint.fields import display, spec_for
+from sheetlint.relations.registry import register
+
+KNOWN_THERMAL_CLASSES = (105, 120, 130, 155, 180, 200, 220)
+
+
+@register
+class ValueRange(Relation):
+    """Values that cannot be physically true.
+
+    What it checks: magnitudes are positive (power, torque, speed, frequency, voltage, current,
+    resistance, inductance, Ke, Kt, flux, losses, mass, inertia, temperatures in kelvin);
+    efficiency and power factor lie in (0, 1]; efficiency below 1; the pole count is an even
+    integer of at least 2 (pole pairs and phases positive integers); a thermal class is one
+    of IEC 60085's.
+
+    Why it matters: an impossible value poisons every relation it enters. The value is
+    reported as an error and left out, and every other relation is still checked.
+
+    Example that fails: ``machine.poles: 7`` (odd), ``rated.efficiency: 101 %``.
+
+    Fix: correct the value, or remove it if unknown.
+
+    References: IEC 60034-1 (rating quantities); IEC 60085 (thermal classes).
+    """
+
+    rule = "value-range"
+    title = "physically possible values"
+    equation = "x > 0; 0 < η < 1; 0 < cos φ ≤ 1; poles = 2k, k ≥ 1"
+    kind = "bound"
+    severity_policy = "error for an impossible value (left out of all other relations); " \
+                      "warning for an unknown thermal class"
+    source = "IEC 60034-1 (rating quantities); IEC 60085 (thermal classes)"
+    order = 0
+
+    def screen(self, sheet: Sheet) -> Iterator[Finding]:
+        for path in list(sheet.values):
+            known = sheet.values[path]
+            problem = self._problem(path, known.value)
+            if problem is None:
+                continue
+            del sheet.values[path]
+            yield sheet.finding(self, "error",
+                                f"{path} = {known.text or display(path, known.value)}: "
+                                f"{problem}; the value is left out of all other checks", (path,))
+        for name in ("machine.thermal_class", "machine.temperature_rise_class"):
+            cls = sheet.attr(name)
+            if cls is not None and cls not in KNOWN_THERMAL_CLASSES:
+                yield sheet.finding(self, "warning", f"{name} '{cls}' is not an IEC 60085 "
+                                    "thermal class (130/B, 155/F, 180/H, ...)", (name,))
+
+    @staticmethod
+    def _problem(path: str, value: float) -> str | None:
+        spec = spec_for(path)
+        kind = spec.kind if spec else "ratio"
+        if path.endswith("efficiency"):
+            if not 0.0 < value < 1.0:
+                return "efficiency must lie between 0 and 100 % (exclusive)"
+            return None
+        if path.endswith("power_factor"):
+            if not 0.0 < value <= 1.0:
+                return "power factor must lie in (0, 1]"
+            return None
+        if path == "machine.poles":
+            if value < 2 or value != int(value) or int(value) % 2:
+                return "a pole count must be an even integer of at least 2"
+            return None
+        if path in ("machine.pole_pairs", "machine.phases"):
+            if value < 1 or value != int(value):
+                return "must be a positive integer"
+            return None
+        if kind == "temperature":
+            return "below absolute zero" if value <= 0.0 else None
+        if path == "machine.altitude" or path.startswith("rated.losses."):
+            return "must not be negative" if value < 0.0 else None
+        if kind == "temperature_difference":
+            return "must not be negative" if value < 0.0 else None
+        if value <= 0.0:
+            return "must be positive"
+        return None
+
+
+@register
+class UnknownFields(Relation):
+    """Fields and qualifiers the schema does not know.
+
+    What it checks: every field of the record is one of the data contract's. Unknown fields are
+    kept (vendors and users add their own) and reported as info; one that looks like a
+    misspelling of a known field (``rated.powr``) is a warning naming the field it probably
+    meant, since its value was not used. Also reports suppressions that no longer match.
+
+    Fix: rename the field, or leave it (info only).
+    """
+
+    rule = "unknown-field"
+    title = "fields outside the schema"
+    equation = "field ∈ schema"
+    kind = "bound"
+    severity_policy = "info for an unknown field; warning for a probable misspelling"
+    source = "sheetlint data contract (schema/pm-machine.schema.json)"
+    order = 0

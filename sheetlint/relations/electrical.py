@@ -1,0 +1,244 @@
+"""Electrical: input power balance, losses, and the resistive voltage drop."""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterator
+
+from sheetlint.engine.core import Derivation, Finding, Relation, Sheet, combine_sensitivity
+from sheetlint.engine.monomial import Monomial
+from sheetlint.relations.registry import register
+from sheetlint.standards.tolerances import efficiency_tolerance, power_factor_tolerance
+
+SQRT3 = math.sqrt(3.0)
+LOSS_PARTS = ("copper", "iron", "friction", "stray")
+
+
+@register
+class ElectricalPower(Monomial):
+    """Output power is efficiency times the three-phase electrical input power.
+
+    .. math:: P = \\eta\\,\\sqrt{3}\\,U\\,I\\cos\\varphi
+
+    What it checks: rated (and every point's) power, efficiency, line voltage, line current and
+    power factor agree. The declared η and cos φ may each be off by the IEC 60034-1 tolerance
+    (η: −15 % of (1 − η) up to 150 kW, −10 % above; cos φ: −(1 − cos φ)/6, 0.02…0.07), which
+    is allowed on top of the rounding (for cos φ by analogy: the standard states it for
+    induction machines).
+
+    Why it matters: a current or power factor copied from another rating, a phase voltage
+    labelled line, or a power in hp all break this balance.
+
+    Example that fails: 15 kW, 400 V, 28 A, cos φ 0.95, η 93 % (gives 17.1 kW).
+
+    Fix: correct the field named in the cause, or state the basis of voltage and current.
+
+    References: IEC 60034-1:2010, tolerances on declared values (as quoted); the three-phase
+    power P = √3·U·I·cos φ (any power-systems text).
+    """
+
+    rule = "electrical-power"
+    title = "electrical power balance"
+    equation = "P = η·√3·U·I·cos φ"
+    fields = ("rated.current", "rated.power", "rated.efficiency", "rated.voltage",
+              "rated.power_factor")
+    terms = {"rated.current": 1.0, "rated.power": -1.0, "rated.efficiency": 1.0,
+             "rated.voltage": 1.0, "rated.power_factor": 1.0}
+    reported = "rated.current"
+    derive_fields = ("rated.current", "rated.power_factor", "rated.efficiency")
+    kind = "exact"
+    severity_policy = "error beyond rounding plus the IEC 60034-1 tolerances on η and cos φ"
+    source = "IEC 60034-1:2010, tolerances on declared values (η, cos φ), as quoted"
+    per_point = True
+    order = 12
+
+    def constant(self, sheet: Sheet) -> float:
+        return 1.0 / SQRT3
+
+    def allowance(self, sheet: Sheet) -> float:
+        eta = sheet.values[self.at("rated.efficiency")].value
+        cos_phi = sheet.values[self.at("rated.power_factor")].value
+        power = sheet.values[self.at("rated.power")].value
+        return efficiency_tolerance(eta, power) / eta + power_factor_tolerance(cos_phi) / cos_phi
+
+
+@register
+class LossBalance(Relation):
+    """Losses are input minus output; their parts add up; copper loss fits inside them.
+
+    .. math:: P_{loss} = P/\\eta - P, \\qquad P_{Cu} = 3 I^2 R_{phase} \\le P_{loss}
+
+    What it checks: stated total losses against power and efficiency; the stated breakdown
+    (copper, iron, friction, stray) against the total; the copper loss 3·I²·R of the rated
+    current in the phase resistance (hot when known, otherwise the stated one, which can only
+    make the bound looser) within the total losses, and within the copper loss when stated.
+
+    Why it matters: a resistance given line-to-line as if per phase doubles the apparent copper
+    loss; an efficiency rounded up hides a quarter of the losses.
+
+    Example that fails: 15 kW at η 95 % states 500 W of losses (P/η − P = 789 W).
+
+    References: IEC 60034-2-1:2014, summation of losses (total loss = input − output) [M].
+    Copper loss 3·I²·R_phase = 1.5·I²·R_line for star and delta (DESIGN.md, Bases).
+    """
+
+    rule = "loss-balance"
+    title = "losses, efficiency and copper loss"
+    equation = "P_loss = P/η − P; Σ parts = P_loss; 3·I²·R ≤ P_loss"
+    fields = ("rated.losses", "rated.power", "rated.efficiency", "rated.current",
+              "circuit.resistance")
+    kind = "exact"
+    severity_policy = "error beyond rounding; error when the copper loss exceeds the losses"
+    source = "IEC 60034-2-1:2014, determination of losses (summation), from memory"
+    order = 14
+
+    def derive(self, sheet: Sheet) -> Iterator[Derivation]:
+        v = sheet.values
+        if "rated.losses" not in v and sheet.has("rated.power", "rated.efficiency"):
+            p, eta = v["rated.power"], v["rated.efficiency"]
+            losses = p.value * (1.0 / eta.value - 1.0)
+            u = p.uncertainty + eta.uncertainty / (1.0 - eta.value)
+            yield Derivation("rated.losses", losses, u, ("rated.power", "rated.efficiency"),
+                             estimate=p.is_estimate or eta.is_estimate)
+        elif "rated.efficiency" not in v and sheet.has("rated.power", "rated.losses"):
+            p, loss = v["rated.power"], v["rated.losses"]
+            eta = p.value / (p.value + loss.value)
+            u = (1.0 - eta) * (p.uncertainty + loss.uncertainty)
+            yield Derivation("rated.efficiency", eta, u, ("rated.power", "rated.losses"),
+                             estimate=p.is_estimate or loss.is_estimate)
+        elif "rated.power" not in v and sheet.has("rated.efficiency", "rated.losses"):
+            eta, loss = v["rated.efficiency"], v["rated.losses"]
+            power = loss.value * eta.value / (1.0 - eta.value)
+            u = loss.uncertainty + eta.uncertainty / (eta.value * (1.0 - eta.value))
+            yield Derivation("rated.power", power, u, ("rated.efficiency", "rated.losses"),
+                             estimate=eta.is_estimate or loss.is_estimate)
+        if "rated.losses.copper" not in v and sheet.has("rated.current") and (
+                "circuit.resistance_hot" in v):
+            i, r = v["rated.current"], v["circuit.resistance_hot"]
+            yield Derivation("rated.losses.copper", 3.0 * i.value ** 2 * r.value,
+                             2 * i.uncertainty + r.uncertainty,
+                             ("rated.current", "circuit.resistance_hot"),
+                             estimate=i.is_estimate or r.is_estimate,
+                             sensitivity=combine_sensitivity(
+                                 {"rated.current": 2.0, "circuit.resistance_hot": 1.0}, sheet))
+
+    def check(self, sheet: Sheet) -> Iterator[Finding]:
+        v = sheet.values
+        rule = self.rule
+        if sheet.usable(rule, "rated.losses", "rated.power", "rated.efficiency"):
+            p, eta, loss = v["rated.power"], v["rated.efficiency"], v["rated.losses"]
+            expected = p.value * (1.0 / eta.value - 1.0)
+            tolerance = (loss.uncertainty + p.uncertainty
+                         + eta.uncertainty / (1.0 - eta.value))
+            deviation = loss.value / expected - 1.0
+            if abs(deviation) > tolerance:
+                yield sheet.finding(
+                    self, "error", f"stated losses are {deviation:+.1%} off P/η − P "
+                    f"(tolerance ±{tolerance:.1%})",
+                    ("rated.losses", "rated.power", "rated.efficiency"),
+                    expected={"rated.losses": expected}, actual={"rated.losses": loss.value},
+                    deviation=deviation)
+        parts = [f"rated.losses.{n}" for n in LOSS_PARTS if sheet.given(f"rated.losses.{n}")]
+        if "rated.losses" in v and len(parts) >= 2:
+            total = sum(v[p].value for p in parts)
+            slack = sum(v[p].value * v[p].uncertainty for p in parts)
+            loss = v["rated.losses"]
+            slack += loss.value * loss.uncertainty
+            complete = len(parts) == len(LOSS_PARTS)
+            if total > loss.value + slack or (complete and total < loss.value - slack):
+                word = "exceed" if total > loss.value else "fall short of"
+                yield sheet.finding(
+                    self, "error", f"the stated loss parts ({', '.join(p[13:] for p in parts)}) "
+                    f"{word} the total losses", ("rated.losses", *parts),
+                    expected={"rated.losses": total}, actual={"rated.losses": loss.value},
+                    deviation=loss.value / total - 1.0)
+        yield from self._copper_bound(sheet)
+
+    def _copper_bound(self, sheet: Sheet) -> Iterator[Finding]:
+        v = sheet.values
+        resistance = "circuit.resistance_hot" if "circuit.resistance_hot" in v else (
+            "circuit.resistance")
+        if not sheet.usable(self.rule, "rated.current", resistance, "rated.losses",
+                            allow_estimates=True):
+            return
+        i, r, loss = v["rated.current"], v[resistance], v["rated.losses"]
+        copper = 3.0 * i.value ** 2 * r.value
+        tolerance = 2 * i.uncertainty + r.uncertainty + loss.uncertainty
+        estimated = any(k.is_estimate for k in (i, r, loss))
+        limit_name, limit = "rated.losses", loss.value
+        if sheet.given("rated.losses.copper"):
+            limit_name, limit = "rated.losses.copper", v["rated.losses.copper"].value
+            tolerance += v["rated.losses.copper"].uncertainty
+            if resistance == "circuit.resistance_hot":
+                tolerance += 0.10  # the sheet's winding temperature may differ from ours
+        if copper > limit * (1.0 + tolerance):
+            cause = None
+            if sheet.get("circuit.resistance") and copper / 2 <= limit * (1 + tolerance):
+                cause = ("agrees if circuit.resistance is line-to-line (terminal-to-terminal) "
+                         "rather than per phase (×2)")
+            stated = sheet.get("circuit.resistance")
+            severity = "warning" if estimated or (cause and stated and not stated.basis_stated) \
+                else "error"
+            yield sheet.finding(
+                self, severity,  # type: ignore[arg-type]
+                f"copper loss 3·I²·R = {copper:.0f} W of the rated current exceeds "
+                f"{limit_name} ({limit:.0f} W)", ("circuit.resistance", "rated.current",
+                                                  limit_name),
+                expected={limit_name: copper}, actual={limit_name: limit},
+                deviation=limit / copper - 1.0, cause=cause)
+
+
+@register
+class ResistanceDrop(Relation):
+    """The resistive drop of rated current is a small part of the phase voltage.
+
+    .. math:: \\frac{I\\,R_{phase,hot}}{U/\\sqrt3} \\in [0.1\\,\\%, 15\\,\\%]
+
+    What it checks: the ratio above lies in the plausible band (warning outside). It also
+    reports the standstill line voltage √3·I·R_hot that rated current needs, which a
+    commissioning engineer compares with the converter's low-speed voltage.
+
+    Why it matters: at zero speed the stator impedance reduces to its resistance, so the
+    voltage that rated current needs at standstill is only I·R — small next to the rated
+    voltage (common practice, no published source). A ratio far outside the band points to
+    a resistance in mΩ written as Ω, or line-to-line read as phase.
+
+    Fix: check the resistance's unit, basis and temperature.
+
+    References: the band is common practice (REFERENCES.md §9), not a published value.
+    """
+
+    rule = "resistance-drop"
+    title = "resistive voltage drop"
+    equation = "I·R_phase,hot / (U/√3) in 0.1–15 %; standstill U = √3·I·R_hot"
+    fields = ("circuit.resistance", "rated.current", "rated.voltage")
+    kind = "band"
+    severity_policy = "warning outside the band; info with the standstill voltage"
+    source = "common practice (no published source): REFERENCES.md §9"
+    order = 60
+
+    def check(self, sheet: Sheet) -> Iterator[Finding]:
+        v = sheet.values
+        resistance = "circuit.resistance_hot" if "circuit.resistance_hot" in v else (
+            "circuit.resistance")
+        if not sheet.usable(self.rule, resistance, "rated.current", "rated.voltage",
+                            allow_estimates=True):
+            return
+        r, i, u = v[resistance], v["rated.current"], v["rated.voltage"]
+        standstill = SQRT3 * i.value * r.value
+        ratio = standstill / u.value
+        low = sheet.option(self.rule, "low", 0.001)
+        high = sheet.option(self.rule, "high", 0.15)
+        hot = "hot " if resistance.endswith("_hot") else ""
+        yield sheet.finding(
+            self, "info", f"rated current at standstill needs about {standstill:.1f} V line "
+            f"(√3·I·R_{hot}phase), {ratio:.1%} of the rated voltage (common practice: small)",
+            (resistance, "rated.current", "rated.voltage"))
+        if not low <= ratio <= high:
+            where = "above" if ratio > high else "below"
+            cause = ("a resistance in Ω where mΩ was meant, or line-to-line read as phase"
+                     if ratio > high else "a resistance in mΩ written as Ω-thousandths")
+            yield sheet.finding(
+                self, "warning", f"I·R is {ratio:.2%} of the phase voltage, {where} the "
+                f"plausible {low:.1%}–{high:.0%} band (common practice)",
+                (resistance, "rated.current", "rated.voltage"), cause=cause)
