@@ -11,6 +11,8 @@ import math
 from typing import Any
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from sheetlint.engine.core import Known, Sheet
 from sheetlint.relations.registry import relation_for
@@ -22,6 +24,7 @@ from sheetlint.relations.standards import (
     SpecificLosses,
     TemperatureRise,
 )
+from sheetlint.standards.efficiency import line_operated_minimum
 
 RPM = 2 * math.pi / 60
 ZERO_C = 273.15
@@ -405,3 +408,32 @@ def test_a_consistent_catalogue_sheet_raises_no_warning_or_error() -> None:
             s.values.setdefault(d.field, Known(d.value, d.uncertainty, "derived", relation.rule))
         findings += list(relation.check(s))
     assert [f for f in findings if f.severity != "info"] == []
+
+
+@settings(max_examples=150, deadline=None)
+@given(kw=st.floats(0.75, 1000.0), poles=st.sampled_from([2, 4, 6, 8]),
+       ie_class=st.integers(2, 4), margin_tenths=st.integers(0, 20))
+def test_claims_met_at_catalogue_precision_raise_no_warning(kw: float, poles: int,
+                                                            ie_class: int,
+                                                            margin_tenths: int) -> None:
+    # DESIGN.md: a consistent sheet rounded to catalogue precision yields no error or warning.
+    minimum = line_operated_minimum(ie_class, poles, kw * 1e3).efficiency
+    assert minimum is not None
+    declared = round(100 * minimum + margin_tenths / 10, 1)
+    findings = list(EfficiencyClass().check(efficiency_sheet(declared, 1, kw, f"IE{ie_class}",
+                                                             poles)))
+    assert all(f.severity == "info" for f in findings)
+
+
+@settings(max_examples=150, deadline=None)
+@given(kw=st.floats(0.75, 1000.0), poles=st.sampled_from([2, 4, 6, 8]),
+       ie_class=st.integers(2, 3))
+def test_claims_one_class_above_the_class_reached_are_errors(kw: float, poles: int,
+                                                             ie_class: int) -> None:
+    # property over the whole range: declared exactly at one class's minimum, next class claimed
+    minimum = line_operated_minimum(ie_class, poles, kw * 1e3).efficiency
+    higher = line_operated_minimum(ie_class + 1, poles, kw * 1e3).efficiency
+    assert minimum is not None and higher is not None and higher > minimum
+    findings = list(EfficiencyClass().check(efficiency_sheet(
+        round(100 * minimum, 1), 1, kw, f"IE{ie_class + 1}", poles)))
+    assert severities(findings) == ["error"] and f"IE{ie_class}" in findings[0].message
