@@ -25,6 +25,7 @@ from sheetlint.standards.thermal import (
     SIZING_SOURCE,
     TEMPERATURE_RISE_SOURCE,
     ZERO_CELSIUS_K,
+    class_number,
     cooling_group,
     corrected_rise_limit,
     reference_temperature_c,
@@ -42,25 +43,12 @@ RAD_PER_S_TO_RPM = 60.0 / (2.0 * math.pi)
 _EPS = 1e-9
 
 
-def _class_number(value: object) -> int | None:
-    """An integer thermal class from an attribute, or None."""
-    if isinstance(value, bool):
-        return None
-    if isinstance(value, int):
-        return value
-    if isinstance(value, float) and math.isfinite(value) and value == int(value):
-        return int(value)
-    if isinstance(value, str) and value.strip().isdigit():
-        return int(value.strip())
-    return None
-
-
 def _governing_class(sheet: Sheet) -> tuple[int | None, str]:
     """The class whose rise limit applies: the temperature-rise class, else the thermal class."""
-    rise_class = _class_number(sheet.attr("machine.temperature_rise_class"))
+    rise_class = class_number(sheet.attr("machine.temperature_rise_class"))
     if rise_class is not None:
         return rise_class, "temperature-rise class"
-    return _class_number(sheet.attr("machine.thermal_class")), "thermal class"
+    return class_number(sheet.attr("machine.thermal_class")), "thermal class"
 
 
 def _celsius(sheet: Sheet, name: str) -> float | None:
@@ -180,8 +168,8 @@ class TemperatureRise(Relation):
 
     # --- check ----------------------------------------------------------------------------
     def check(self, sheet: Sheet) -> Iterator[Finding]:
-        rise_class = _class_number(sheet.attr("machine.temperature_rise_class"))
-        thermal_class = _class_number(sheet.attr("machine.thermal_class"))
+        rise_class = class_number(sheet.attr("machine.temperature_rise_class"))
+        thermal_class = class_number(sheet.attr("machine.thermal_class"))
         if rise_class is not None and thermal_class is not None and rise_class > thermal_class:
             yield sheet.finding(
                 self, "error",
@@ -422,7 +410,10 @@ def _band_finding(relation: Relation, sheet: Sheet, quantity: str, value: float,
         edge, side = high, "above"
     else:
         return
-    band_text = f"{low:g}-{high:g} {unit}" if high is not None else f">= {low:g} {unit}"
+    if high is None:
+        band_text = f">= {low:g} {unit}"
+    else:
+        band_text = f"{low:g}-{high:g} {unit}" if low else f"<= {high:g} {unit}"
     yield sheet.finding(
         relation, "warning",
         f"{what} {value:.3g} {unit} is {side} the usual band {band_text} (a band from memory, "

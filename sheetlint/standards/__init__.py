@@ -10,3 +10,17 @@
 Tables live in ``data/*.json`` beside this file, each with its source, edition and the
 provenance of its values; each is read once, on first use.
 """
+
+from __future__ import annotations
+
+import json
+from functools import cache
+from importlib import resources
+from typing import Any
+
+
+@cache
+def load_table(name: str) -> dict[str, Any]:
+    """Read ``data/NAME`` of this package once; later calls return the same mapping."""
+    text = resources.files(__name__).joinpath("data", name).read_text("utf-8")
+    return json.loads(text)

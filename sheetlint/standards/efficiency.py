@@ -11,13 +11,12 @@ The table is read once, on first use (``data/iec_60034_30_1_coefficients.json``)
 
 from __future__ import annotations
 
-import json
 import math
 import re
 from dataclasses import dataclass
-from functools import cache
-from importlib import resources
 from typing import Any
+
+from sheetlint.standards import load_table
 
 COEFFICIENT_FILE = "iec_60034_30_1_coefficients.json"
 
@@ -33,13 +32,6 @@ CONVERTER_FED_SOURCE = (
 )
 
 _CLASS_PATTERN = re.compile(r"^\s*IE\s*([1-5])\s*$", re.IGNORECASE)
-
-
-@cache
-def load_table(name: str) -> dict[str, Any]:
-    """Read a data file of this package once; later calls return the same mapping."""
-    text = resources.files("sheetlint.standards").joinpath("data", name).read_text("utf-8")
-    return json.loads(text)
 
 
 def coefficient_table() -> dict[str, Any]:

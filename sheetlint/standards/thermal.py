@@ -12,7 +12,7 @@ import re
 from dataclasses import dataclass
 from typing import Any
 
-from sheetlint.standards.efficiency import load_table
+from sheetlint.standards import load_table
 
 THERMAL_FILE = "iec_60034_1_thermal.json"
 BANDS_FILE = "sizing_bands.json"
@@ -40,16 +40,22 @@ def sizing_bands() -> dict[str, Any]:
     return load_table(BANDS_FILE)
 
 
-def _class_key(thermal_class: object) -> str | None:
-    if isinstance(thermal_class, bool) or not isinstance(thermal_class, int | float | str):
+def class_number(value: object) -> int | None:
+    """An IEC 60085 class number from a sheet attribute (``155``, ``"155"``, ``155.0``), or None."""
+    if isinstance(value, bool) or not isinstance(value, int | float | str):
         return None
     try:
-        number = float(thermal_class)
+        number = float(value)
     except ValueError:
         return None
     if not math.isfinite(number) or number != int(number):
         return None
-    return str(int(number))
+    return int(number)
+
+
+def _class_key(thermal_class: object) -> str | None:
+    number = class_number(thermal_class)
+    return None if number is None else str(number)
 
 
 def thermal_class_limit(thermal_class: object) -> float | None:
