@@ -437,3 +437,28 @@ def test_claims_one_class_above_the_class_reached_are_errors(kw: float, poles: i
     findings = list(EfficiencyClass().check(efficiency_sheet(
         round(100 * minimum, 1), 1, kw, f"IE{ie_class + 1}", poles)))
     assert severities(findings) == ["error"] and f"IE{ie_class}" in findings[0].message
+
+
+def test_end_to_end_through_the_cli(tmp_path: Any, capsys: Any) -> None:
+    # invented machine; 11 kW 4p IE4 minimum 93.3 % (SI 2021/745 Schedule 16 Table 23 [R]);
+    # class B rise limit 80 K (IEC 60034-1 as quoted); 0.400 ohm at 20 degC -> 40 + 85 = 125 degC
+    # -> 0.400 x 360/255 = 0.56471 ohm ([D], k = 235)
+    import json
+
+    from sheetlint.cli import main
+
+    path = tmp_path / "demo.yaml"
+    path.write_text(
+        "id: DEMO-Q11\nmachine:\n  poles: 4\n  thermal_class: F\n  temperature_rise_class: B\n"
+        "rated:\n  power: 11 kW\n  speed: 1500 rpm\n  frequency: 50 Hz\n"
+        "  efficiency: 91.5 %\n  temperature_rise: 85 K\n"
+        "circuit:\n  resistance: 0.400 ohm\n"
+        "efficiency_class:\n  value: IE4\n  standard: IEC 60034-30-1\n", encoding="utf-8")
+    main(["check", "--format", "json", str(path)])
+    record = json.loads(capsys.readouterr().out)["files"][0]["records"][0]
+    by_rule = {f["rule"]: f for f in record["findings"]}
+    assert by_rule["efficiency-class"]["severity"] == "error"
+    assert by_rule["temperature-rise"]["severity"] == "error"
+    hot = record["derived"]["circuit.resistance_hot"]
+    assert hot["rule"] == "temperature-rise" and hot["value"] == pytest.approx(0.564706, rel=1e-5)
+    assert record["derived"]["rated.magnet_temperature"]["estimate"] is True
