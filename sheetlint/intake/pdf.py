@@ -1,0 +1,805 @@
+"""PDF intake: machine data from the tables of vendor datasheets.
+
+``extract_pdf`` reads the text layer of a PDF (pdfplumber words with positions; no OCR) and
+turns its tables into raw records of the input schema (DESIGN.md, "Data contract"). Every
+value keeps the page and the row text it came from; rows whose label is not known go to
+``unmapped``. Two layouts are recognised, in any mix, ruled or not:
+
+* label / value rows: ``Rated power | 75 | kW``, ``Rated power [kW] | 75``,
+  ``Rated power | 75 kW``, also several pairs per line and ``Label: value`` lines;
+* catalogue tables: one machine per row under a header of one or more lines (units in the
+  header, a line of their own or the cells); a table continued on the next page with a
+  repeated header or none reuses the columns of the last header.
+
+Labels and units come from ``data/pdf_labels.yaml`` (English and German). Hostile files
+(encrypted, truncated, empty, not a PDF, too many or too large pages, too slow) raise
+:class:`PdfError` with a message naming the file, and nothing else escapes.
+"""
+
+from __future__ import annotations
+
+import functools
+import json
+import os
+import re
+import time
+from dataclasses import dataclass, field
+from importlib import resources
+from pathlib import Path
+from typing import Any
+
+import yaml
+
+from sheetlint.fields import ATTRIBUTE_FIELDS, FIELDS
+from sheetlint.intake.pdf_layout import (
+    Cell,
+    Column,
+    Line,
+    best_column,
+    find_columns,
+    group_lines,
+    split_at_gutters,
+    vertical_rules,
+)
+
+#: largest page side the PDF format allows (ISO 32000-1, Annex C: 14 400 units = 200 in)
+MAX_PAGE_SIDE_PT = 14_400.0
+
+
+class PdfError(Exception):
+    """A PDF that cannot be read; the message names the file and what is wrong."""
+
+
+@dataclass
+class PdfRecord:
+    """One machine read from a PDF: the raw record and where each field came from."""
+
+    data: dict[str, Any]
+    locations: dict[str, dict[str, Any]] = field(default_factory=dict)
+
+
+@dataclass
+class PdfExtraction:
+    """Everything read from one PDF."""
+
+    path: str
+    records: list[PdfRecord]
+    unmapped: list[dict[str, Any]]
+    notes: list[str]
+    pages: int
+
+
+# --------------------------------------------------------------------------- vocabulary
+
+
+@dataclass(frozen=True, slots=True)
+class LabelMatch:
+    """A label read against the vocabulary: the field, a unit and qualifiers it states."""
+
+    path: str
+    unit: str | None
+    qualifiers: dict[str, str]
+
+
+class Vocabulary:
+    """Labels, units and attribute values of ``pdf_labels.yaml``."""
+
+    def __init__(self, table: dict[str, Any]) -> None:
+        self.synonyms: dict[str, str] = {}
+        for path, words in table["fields"].items():
+            for word in words:
+                self.synonyms.setdefault(_squash(str(word)), path)
+        self.symbols = {_squash(str(s)) for s in table["symbols"]}
+        self.headings = {_squash(str(s)) for s in table["headings"]}
+        self.basis_patterns: list[tuple[re.Pattern[str], str]] = []
+        phrases = [(str(p), key) for key, words in table["bases"].items() for p in words]
+        for phrase, key in sorted(phrases, key=lambda item: -len(item[0])):
+            pattern = re.compile(r"(?<![\w-])" + re.escape(phrase.lower()) + r"(?![\w-])")
+            self.basis_patterns.append((pattern, key))
+        self.values = {
+            path: {str(s).lower(): canonical for canonical, spellings in mapping.items()
+                   for s in spellings}
+            for path, mapping in table["values"].items()
+        }
+        self.units = {str(u) for u in table["units"]}
+        self.spellings = {str(k): str(v) for k, v in table["unit_spellings"].items()}
+        self.spellings_folded = {k.lower(): v for k, v in self.spellings.items()}
+
+    def unit(self, text: str) -> str | None:
+        """The accepted spelling of unit ``text``, or None if it is not a unit we know."""
+        text = " ".join(text.strip().split())
+        if not text:
+            return None
+        if text in self.units:
+            return text
+        if text in self.spellings:
+            return self.spellings[text]
+        compact = text.replace(" ", "")
+        if compact in self.units:
+            return compact
+        return self.spellings_folded.get(text.lower())
+
+    def lookup(self, text: str) -> str | None:
+        """Field path of a squashed label, allowing symbols before or after it."""
+        if not text:
+            return None
+        if text in self.synonyms:
+            return self.synonyms[text]
+        tokens = text.split()
+        for head in range(0, 3):
+            for tail in range(0, 3):
+                if head + tail == 0 or head + tail >= len(tokens):
+                    continue
+                prefix = " ".join(tokens[:head])
+                suffix = " ".join(tokens[len(tokens) - tail:])
+                if (head and prefix not in self.symbols) or (tail and suffix not in
+                                                             self.symbols):
+                    continue
+                core = " ".join(tokens[head:len(tokens) - tail])
+                if core in self.synonyms:
+                    return self.synonyms[core]
+        return None
+
+    def match_label(self, raw: str) -> LabelMatch | None:
+        """Read a table label: field, unit written in it, qualifiers (basis, temperature)."""
+        text, unit = self._split_unit(raw.strip().rstrip(":").strip())
+        lowered = _normalise_text(text.lower())
+        path = self.lookup(_squash(lowered))
+        if path is not None:
+            return LabelMatch(path, unit, {})
+        qualifiers: dict[str, str] = {}
+        stripped = lowered
+        temperature = TEMPERATURE_IN_LABEL.search(stripped)
+        if temperature:
+            qualifiers["temperature"] = f"{_number_text(temperature.group(1))} °C"
+            stripped = stripped[:temperature.start()] + " " + stripped[temperature.end():]
+        duration = DURATION_IN_LABEL.search(stripped)
+        if duration:
+            qualifiers["duration"] = f"{_number_text(duration.group(1))} {duration.group(2)}"
+            stripped = stripped[:duration.start()] + " " + stripped[duration.end():]
+        path = self.lookup(_squash(stripped)) if qualifiers else None
+        if path is not None:  # "Peak torque (10 s)": "peak" is part of the name
+            return LabelMatch(path, unit, qualifiers)
+        for pattern, key in self.basis_patterns:
+            if pattern.search(stripped):
+                qualifiers.setdefault(key, key)
+                stripped = pattern.sub(" ", stripped)
+        path = self.lookup(_squash(stripped))
+        if path is None:
+            return None
+        return LabelMatch(path, unit, qualifiers)
+
+    def _split_unit(self, text: str) -> tuple[str, str | None]:
+        for pattern in (r"\[([^\]]+)\]", r"\(([^()]+)\)"):
+            for found in re.finditer(pattern, text):
+                unit = self.unit(found.group(1))
+                if unit is not None:
+                    return (text[:found.start()] + text[found.end():]).strip(), unit
+        found = re.search(r"\s/\s*(\S.*)$", text) or re.search(r"\s(?:in)\s+(\S+)$", text)
+        if found:
+            unit = self.unit(found.group(1))
+            if unit is not None:
+                return text[:found.start()].strip(), unit
+        return text, None
+
+    def attribute(self, path: str, text: str) -> str | int:
+        """Canonical spelling of an attribute value (``'Stern'`` -> ``'star'``)."""
+        text = " ".join(text.split())
+        folded = text.lower()
+        if path in self.values:
+            return self.values[path].get(folded, text)
+        if path in ("machine.thermal_class", "machine.temperature_rise_class"):
+            found = re.search(r"\b(1[0-9]{2}|2[0-9]{2})\b", text)
+            if found:
+                return int(found.group(1))
+            found = re.search(r"\b([A-HY])\b", text)
+            return found.group(1) if found else text
+        if path == "machine.cooling":
+            found = re.search(r"\bIC\s*([0-9][0-9A-Z ]*)", text, re.IGNORECASE)
+            return "IC" + found.group(1).replace(" ", "").upper() if found else text
+        if path == "machine.duty":
+            found = re.search(r"\bS\s*(10|[1-9])\b", text, re.IGNORECASE)
+            return f"S{found.group(1)}" if found else text
+        if path == "efficiency_class":
+            found = re.search(r"\bIE\s*([1-5])\b", text, re.IGNORECASE)
+            return f"IE{found.group(1)}" if found else text
+        return text
+
+
+TEMPERATURE_IN_LABEL = re.compile(
+    r"(?:\b(?:at|bei|for|für)\s+|@\s*)?([-+]?\d+(?:[.,]\d+)?)\s*°\s*c\b")
+DURATION_IN_LABEL = re.compile(r"(?:\(\s*|\b(?:for|für|during|während)\s+)"
+                               r"(\d+(?:[.,]\d+)?)\s*(s|ms|min)\b\s*\)?")
+
+
+def _normalise_text(text: str) -> str:
+    return (text.replace("–", "-").replace("—", "-").replace("‑", "-").replace("ϕ", "φ")
+            .replace("\u00a0", " ").replace("\u2009", " ").replace("\u202f", " "))
+
+
+def _squash(text: str) -> str:
+    """Lower case, punctuation (except - / _ . and symbols) reduced to single spaces."""
+    text = _normalise_text(text.lower())
+    text = re.sub(r"[,;:()\[\]{}\"'’]", " ", text)
+    text = re.sub(r"(?<=\w)\.(?=\s|$)", "", text)  # "max. speed" -> "max speed"
+    return " ".join(text.split())
+
+
+@functools.cache
+def vocabulary() -> Vocabulary:
+    """The label vocabulary, read once from ``sheetlint/intake/data/pdf_labels.yaml``."""
+    source = resources.files("sheetlint.intake").joinpath("data/pdf_labels.yaml")
+    return Vocabulary(yaml.safe_load(source.read_text(encoding="utf-8")))
+
+
+# --------------------------------------------------------------------------- numbers
+
+NUMBER_START = re.compile(r"^(?:approx\.?|ca\.?|≈|~)?\s*([-+−]?\d[\d\u2009\u202f\u00a0 '’.,]*)")
+GROUPED = re.compile(r"\d{1,3}(?:[ \u2009\u202f\u00a0'’]\d{3})+(?:[.,]\d+)?")
+
+
+@dataclass(frozen=True, slots=True)
+class Quantity:
+    """A number as written (normalised to a decimal point) and what follows it."""
+
+    number: str
+    unit: str | None
+    rest: str
+
+
+def _number_text(text: str) -> str:
+    return text.replace(",", ".")
+
+
+def normalise_number(text: str, decimal_comma: bool | None) -> str | None:
+    """``'1 500'`` -> ``'1500'``, ``'0,95'`` -> ``'0.95'``; None if ``text`` is not one number.
+
+    Space-like and apostrophe separators group thousands. With both ``.`` and ``,`` the last
+    is the decimal mark. A lone ``,`` is decimal unless the page writes decimal points and
+    the comma is followed by exactly three digits (``1,500``); likewise for a lone ``.``.
+    """
+    text = text.strip().replace("−", "-")
+    sign = ""
+    if text[:1] in "+-":
+        sign, text = ("-" if text[0] == "-" else ""), text[1:].strip()
+    if re.search(r"[ \u2009\u202f\u00a0'’]", text):
+        if not GROUPED.fullmatch(text):
+            return None
+        text = re.sub(r"[ \u2009\u202f\u00a0'’]", "", text)
+    if not re.fullmatch(r"\d[\d.,]*", text) or text[-1] in ".,":
+        return None
+    commas, points = text.count(","), text.count(".")
+    if commas and points:
+        decimal = "," if text.rfind(",") > text.rfind(".") else "."
+        thousands = "." if decimal == "," else ","
+        whole, _, fraction = text.rpartition(decimal)
+        if not re.fullmatch(r"\d{1,3}(?:" + re.escape(thousands) + r"\d{3})+", whole):
+            return None
+        return sign + whole.replace(thousands, "") + "." + fraction
+    mark = "," if commas else "." if points else ""
+    if not mark:
+        return sign + text
+    count = commas or points
+    three_digit_group = re.fullmatch(r"\d{1,3}(?:" + re.escape(mark) + r"\d{3})+", text)
+    page_uses_other = (decimal_comma is False) if mark == "," else (decimal_comma is True)
+    if count > 1:
+        return sign + text.replace(mark, "") if three_digit_group else None
+    if three_digit_group and page_uses_other:
+        return sign + text.replace(mark, "")
+    return sign + text.replace(mark, ".")
+
+
+def parse_quantity(text: str, decimal_comma: bool | None) -> Quantity | None:
+    """Split a cell like ``'1 500 min-1'`` into number and unit; None if it starts with none."""
+    found = NUMBER_START.match(text.strip())
+    if not found:
+        return None
+    raw = found.group(1).rstrip(" \u2009\u202f\u00a0'’.,")
+    rest = text.strip()[found.start(1) + len(raw):].strip()
+    number = normalise_number(raw, decimal_comma)
+    if number is None:
+        # a trailing group may belong to the unit ("2 p" is not a number) -> fail clearly
+        return None
+    unit = vocabulary().unit(rest) if rest else None
+    return Quantity(number, unit, "" if unit else rest)
+
+
+def page_decimal_comma(lines: list[Line]) -> bool | None:
+    """Whether a page writes decimal commas (True), decimal points (False) or cannot tell."""
+    commas = points = 0
+    for line in lines:
+        for cell in line.cells:
+            commas += len(re.findall(r"(?<![\d.,])0,\d|\d,\d{1,2}(?![\d.,])|\d,\d{4,}",
+                                     cell.text))
+            points += len(re.findall(r"(?<![\d.,])0\.\d|\d\.\d{1,2}(?![\d.,])|\d\.\d{4,}",
+                                     cell.text))
+    if commas == points:
+        return None
+    return commas > points
+
+
+def _number_value(number: str) -> int | float:
+    return float(number) if "." in number else int(number)
+
+
+# --------------------------------------------------------------------------- records
+
+
+@dataclass
+class _Builder:
+    """A record being filled, with locations."""
+
+    data: dict[str, Any] = field(default_factory=dict)
+    locations: dict[str, dict[str, Any]] = field(default_factory=dict)
+    first_page: int = 0
+
+    def get(self, path: str) -> Any:
+        node: Any = self.data
+        for part in path.split("."):
+            if not isinstance(node, dict) or part not in node:
+                return None
+            node = node[part]
+        return node
+
+    def set(self, path: str, value: Any, page: int, cell: str) -> bool:
+        parts = path.split(".")
+        node = self.data
+        for part in parts[:-1]:
+            child = node.setdefault(part, {})
+            if not isinstance(child, dict):
+                return False
+            node = child
+        if isinstance(node.get(parts[-1]), dict) and not isinstance(value, dict):
+            return False
+        node[parts[-1]] = value
+        self.locations[path] = {"page": page, "cell": cell}
+        if not self.first_page:
+            self.first_page = page
+        return True
+
+    @property
+    def has_physical(self) -> bool:
+        return any(path in FIELDS for path in self.locations)
+
+
+@dataclass
+class _CatalogueSpec:
+    """Columns of the last catalogue header: extents, labels, matches and units."""
+
+    columns: list[Column]
+    labels: list[str]
+    matches: list[LabelMatch | None]
+    units: list[str | None]
+
+
+class _Reader:
+    """Turns the lines of successive pages into records."""
+
+    def __init__(self, path: str) -> None:
+        self.vocab = vocabulary()
+        self.path = path
+        self.stem = Path(path).stem
+        self.finished: list[_Builder] = []
+        self.catalogue_records: list[_Builder] = []
+        self.current = _Builder()
+        self.unmapped: list[dict[str, Any]] = []
+        self.notes: list[str] = []
+        self.catalogue: _CatalogueSpec | None = None
+        self.decimal_comma: bool | None = None
+
+    # ---- values
+
+    def value_for(self, match: LabelMatch, value_text: str, unit_text: str | None,
+                  column_unit: str | None = None) -> tuple[Any, dict[str, str]] | None:
+        """The raw record value for ``match`` from a value cell, or None if it is not one.
+
+        Returns the value and extra fields implied by the label (emf.magnet_temperature).
+        """
+        path = match.path
+        if path in ATTRIBUTE_FIELDS:
+            text = " ".join([value_text, unit_text or ""]).strip()
+            return (self.vocab.attribute(path, text) if path not in ("id", "maker") else text), {}
+        spec = FIELDS.get(path)
+        quantity = parse_quantity(value_text, self.decimal_comma)
+        if quantity is None or spec is None:
+            return None
+        if spec.kind == "count":
+            if quantity.rest:
+                return None
+            return _number_value(quantity.number), {}
+        unit = quantity.unit or (quantity.rest or None)
+        if unit is None and unit_text:
+            unit = self.vocab.unit(unit_text) or unit_text.strip()
+        unit = unit or match.unit or column_unit
+        qualifiers, extra = self.qualifiers_for(path, spec.kind, match.qualifiers)
+        if qualifiers:
+            value: Any = {"value": _number_value(quantity.number)}
+            if unit:
+                value["unit"] = unit
+            value.update(qualifiers)
+            return value, extra
+        return (f"{quantity.number} {unit}" if unit else quantity.number), extra
+
+    @staticmethod
+    def qualifiers_for(path: str, kind: str, stated: dict[str, str]
+                       ) -> tuple[dict[str, str], dict[str, str]]:
+        """Qualifiers of the object form and extra fields from what the label states."""
+        qualifiers: dict[str, str] = {}
+        extra: dict[str, str] = {}
+        line = "line" in stated
+        phase = "phase" in stated
+        peak = "peak" in stated
+        if kind in ("voltage", "emf_constant") and line != phase:
+            qualifiers["basis"] = ("line" if line else "phase") + ("_peak" if peak else "_rms")
+        elif kind in ("current", "torque_constant") and (peak or "rms" in stated):
+            qualifiers["basis"] = "peak" if peak else "rms"
+        elif kind == "resistance":
+            bases = [b for b in ("line", "phase", "delta_branch") if b in stated]
+            if len(bases) == 1:
+                qualifiers["basis"] = bases[0]
+        elif kind == "inductance" and line != phase:
+            qualifiers["basis"] = "line" if line else "phase"
+        temperature = stated.get("temperature")
+        if temperature and kind not in ("temperature", "temperature_difference"):
+            if kind == "resistance":
+                qualifiers["temperature"] = temperature
+            elif kind == "torque_constant":
+                qualifiers["magnet_temperature"] = temperature
+            elif path.startswith("emf."):
+                extra["emf.magnet_temperature"] = temperature
+        if "duration" in stated and path in ("limits.peak_torque", "limits.peak_current"):
+            qualifiers["duration"] = stated["duration"]
+        return qualifiers, extra
+
+    def put(self, builder: _Builder, path: str, value: Any, page: int, cell: str,
+            label: str) -> None:
+        """Set ``path`` unless it already holds another value (that one goes to unmapped)."""
+        existing = builder.get(path)
+        if existing is not None:
+            if existing != value:
+                self.unmapped.append({"page": page, "label": label, "value": cell,
+                                      "reason": f"second value for {path}"})
+            return
+        if not builder.set(path, value, page, cell):
+            self.unmapped.append({"page": page, "label": label, "value": cell,
+                                  "reason": f"conflicts with the structure of {path}"})
+
+    # ---- label / value rows
+
+    def label_value(self, page: int, label: str, value_text: str, unit_text: str | None,
+                    row_text: str) -> None:
+        match = self.vocab.match_label(label)
+        if match is None:
+            if _squash(label) in self.vocab.headings:
+                return
+            value = " ".join(part for part in (value_text, unit_text or "") if part)
+            self.unmapped.append({"page": page, "label": label, "value": value})
+            return
+        if match.path == "id" and self.current.get("id") is not None:
+            self.finished.append(self.current)
+            self.current = _Builder()
+        result = self.value_for(match, value_text, unit_text)
+        if result is None:
+            self.unmapped.append({"page": page, "label": label, "value": value_text,
+                                  "reason": f"not a value for {match.path}"})
+            return
+        value, extra = result
+        self.put(self.current, match.path, value, page, row_text, label)
+        for path, extra_value in extra.items():
+            self.put(self.current, path, extra_value, page, row_text, label)
+
+    def read_pairs(self, page: int, line: Line) -> None:
+        """Walk a line of label / value [/ unit] cells, several pairs per line allowed."""
+        cells = line.cells
+        if all(_squash(c.text) in self.vocab.headings for c in cells):
+            return
+        index = 0
+        while index < len(cells):
+            label = cells[index]
+            if self.is_number(label):
+                self.unmapped.append({"page": page, "label": "", "value": label.text})
+                index += 1
+                continue
+            value_index = index + 1
+            if (value_index + 1 < len(cells) and not self.is_number(cells[value_index])
+                    and self.is_number(cells[value_index + 1])
+                    and len(cells[value_index].text) <= 6
+                    and self.vocab.match_label(cells[value_index].text) is None):
+                value_index += 1  # a symbol column between label and value
+            if value_index >= len(cells):
+                if len(cells) > 1 and self.vocab.match_label(label.text) is not None:
+                    self.unmapped.append({"page": page, "label": label.text, "value": ""})
+                break
+            value = cells[value_index]
+            unit: Cell | None = None
+            if value_index + 1 < len(cells) and self.is_unit(cells[value_index + 1], cells,
+                                                               value_index + 1):
+                unit = cells[value_index + 1]
+            end = value_index + (2 if unit else 1)
+            row_text = " | ".join(c.text for c in cells[index:end])
+            self.label_value(page, label.text, value.text, unit.text if unit else None,
+                             row_text)
+            index = end
+
+    def is_number(self, cell: Cell) -> bool:
+        quantity = parse_quantity(cell.text, self.decimal_comma)
+        return quantity is not None and not quantity.rest
+
+    def is_unit(self, cell: Cell, cells: list[Cell], index: int) -> bool:
+        if self.vocab.unit(cell.text) is not None:
+            return True
+        # a unit we do not know, as written, in the last column of a label/value/unit row
+        return (index == len(cells) - 1 and len(cells) == 3 and len(cell.text) <= 10
+                and not cell.text[:1].isdigit() and self.vocab.match_label(cell.text) is None)
+
+    def colon_line(self, page: int, line: Line) -> None:
+        found = re.match(r"^([^:]{2,40}):\s*(\S.*)$", line.cells[0].text)
+        if found and self.vocab.match_label(found.group(1)) is not None:
+            self.label_value(page, found.group(1), found.group(2), None, line.cells[0].text)
+
+    # ---- catalogue tables
+
+    def is_data_row(self, line: Line) -> bool:
+        numbers = sum(1 for c in line.cells if self.is_number(c))
+        if numbers < 3 or numbers * 2 < len(line.cells):
+            return False
+        return not any(self.vocab.match_label(c.text) is not None
+                       for c in line.cells if not self.is_number(c))
+
+    def header_spec(self, header: list[Line], rows: list[Line]) -> _CatalogueSpec:
+        columns = find_columns(rows)
+        for line in header:
+            texts: dict[int, list[str]] = {}
+            for cell in line.cells:
+                for piece in split_at_gutters(cell, columns):
+                    texts.setdefault(best_column(piece, columns), []).append(piece.text)
+            for index, column in enumerate(columns):
+                column.header.append(" ".join(texts.get(index, [])))
+        labels, matches, units = [], [], []
+        for column in columns:
+            unit = None
+            words = []
+            for text in column.header:
+                if text and unit is None and self.vocab.unit(text) is not None:
+                    unit = self.vocab.unit(text)
+                elif text:
+                    words.append(text)
+            label = " ".join(words)
+            match = self.vocab.match_label(label) if label else None
+            labels.append(label + (f" [{unit}]" if unit else ""))
+            matches.append(match)
+            units.append(unit or (match.unit if match else None))
+        return _CatalogueSpec(columns, labels, matches, units)
+
+    def read_catalogue_rows(self, page: int, rows: list[Line], spec: _CatalogueSpec) -> None:
+        for row in rows:
+            builder = _Builder()
+            row_name = row.cells[0].text
+            for cell in row.cells:
+                index = best_column(cell, spec.columns)
+                match, label = spec.matches[index], spec.labels[index]
+                location = f"{row_name} | {label}: {cell.text}"
+                if match is None:
+                    self.unmapped.append({"page": page, "label": label or "(no header)",
+                                          "value": cell.text, "row": row_name})
+                    continue
+                result = self.value_for(match, cell.text, None, spec.units[index])
+                if result is None:
+                    self.unmapped.append({"page": page, "label": label, "value": cell.text,
+                                          "row": row_name,
+                                          "reason": f"not a value for {match.path}"})
+                    continue
+                value, extra = result
+                self.put(builder, match.path, value, page, location, label)
+                for path, extra_value in extra.items():
+                    self.put(builder, path, extra_value, page, location, label)
+            self.catalogue_records.append(builder)
+
+    # ---- a page
+
+    def read_page(self, page: int, lines: list[Line]) -> None:
+        self.decimal_comma = page_decimal_comma(lines)
+        used: set[int] = set()
+        data_rows = [i for i, line in enumerate(lines) if self.is_data_row(line)]
+        blocks: list[list[int]] = []
+        for i in data_rows:
+            if blocks and blocks[-1][-1] == i - 1:
+                blocks[-1].append(i)
+            else:
+                blocks.append([i])
+        for block in blocks:
+            header: list[int] = []
+            below = block[0]
+            for j in range(block[0] - 1, max(block[0] - 4, -1), -1):
+                line = lines[j]
+                gap = lines[below].top - line.bottom
+                if (j in used or len(line.cells) < 2 or gap > 2.2 * max(line.height, 1.0)
+                        or any(self.is_number(c) for c in line.cells)):
+                    break
+                header.insert(0, j)
+                below = j
+            rows = [lines[i] for i in block]
+            if header:
+                self.catalogue = self.header_spec([lines[j] for j in header], rows)
+            elif self.catalogue is None:
+                self.notes.append(f"page {page}: a table of {len(rows)} rows has no header "
+                                  "and follows none; its rows are listed as unmapped")
+                for row in rows:
+                    self.unmapped.append({"page": page, "label": "(no header)",
+                                          "value": row.text})
+                used.update(block)
+                continue
+            self.read_catalogue_rows(page, rows, self.catalogue)
+            used.update(block)
+            used.update(header)
+        for i, line in enumerate(lines):
+            if i in used:
+                continue
+            if len(line.cells) == 1:
+                self.colon_line(page, line)
+            else:
+                self.read_pairs(page, line)
+
+    # ---- the end
+
+    def finish(self) -> list[PdfRecord]:
+        label_value = [b for b in (*self.finished, self.current) if b.locations]
+        context = [b for b in label_value if b.get("id") is None and not b.has_physical]
+        machines = [b for b in label_value if b not in context]
+        records = machines + self.catalogue_records
+        for source in context:
+            if not records:
+                for path, where in source.locations.items():
+                    self.unmapped.append({"page": where["page"], "label": path,
+                                          "value": where["cell"],
+                                          "reason": "no machine on the sheet to apply it to"})
+                continue
+            for record in records:
+                for path, where in source.locations.items():
+                    if record.get(path) is None:
+                        record.set(path, source.get(path), where["page"], where["cell"])
+        makers = {r.get("maker") for r in records if r.get("maker") is not None}
+        if len(makers) == 1:
+            maker = makers.pop()
+            where = next(r.locations["maker"] for r in records if r.get("maker") is not None)
+            for record in records:
+                if record.get("maker") is None:
+                    record.set("maker", maker, where["page"], where["cell"])
+        result = []
+        for number, record in enumerate(records, start=1):
+            if record.get("id") is None:
+                record.data = {"id": f"{self.stem}#{number}", **record.data}
+                self.notes.append(f"record {number} (page {record.first_page}) names no model; "
+                                  f"its id is set to '{self.stem}#{number}'")
+            result.append(PdfRecord(record.data, record.locations))
+        return result
+
+
+# --------------------------------------------------------------------------- the file
+
+
+def _fail(path: str, message: str) -> PdfError:
+    return PdfError(f"{path}: {message}")
+
+
+def _check_file(path: str, max_bytes: int) -> None:
+    """Size and signature checks that need no parsing."""
+    try:
+        size = os.path.getsize(path)
+    except FileNotFoundError:
+        raise _fail(path, "no such file") from None
+    except OSError as exc:
+        raise _fail(path, f"cannot be read ({exc.strerror or exc})") from None
+    if os.path.isdir(path):
+        raise _fail(path, "is a directory, not a PDF")
+    if size == 0:
+        raise _fail(path, "is empty (0 bytes), not a PDF")
+    if size > max_bytes:
+        raise _fail(path, f"is {size:,} bytes, more than the limit of {max_bytes:,} bytes")
+    try:
+        with open(path, "rb") as handle:
+            head = handle.read(1024)
+            handle.seek(max(size - 2048, 0))
+            tail = handle.read()
+    except OSError as exc:
+        raise _fail(path, f"cannot be read ({exc.strerror or exc})") from None
+    if b"%PDF-" not in head:
+        raise _fail(path, "is not a PDF (no %PDF- header in its first 1024 bytes)")
+    if b"%%EOF" not in tail:
+        raise _fail(path, "is truncated or damaged (no %%EOF end-of-file marker)")
+
+
+def _page_count(pdf: Any) -> int | None:
+    """Page count from the document catalogue, without walking the page tree."""
+    from pdfminer.pdftypes import resolve1
+
+    try:
+        pages = resolve1(pdf.doc.catalog.get("Pages"))
+        count = resolve1(pages.get("Count")) if isinstance(pages, dict) else None
+        return int(count) if isinstance(count, int) else None
+    except Exception:
+        return None
+
+
+def extract_pdf(path: str | os.PathLike[str], *, max_pages: int = 500, time_limit: float = 60.0,
+                max_bytes: int = 100_000_000) -> PdfExtraction:
+    """Read the machine tables of a PDF into raw records with page and cell locations.
+
+    Raises :class:`PdfError` (and no other exception) when the file is not a readable PDF:
+    missing, empty, not a PDF, truncated, encrypted with a password, more than ``max_pages``
+    pages or ``max_bytes`` bytes, a page beyond the format's size limit, no text layer on any
+    page, or reading taking longer than ``time_limit`` seconds (checked between pages).
+    """
+    name = os.fspath(path)
+    started = time.perf_counter()
+    _check_file(name, max_bytes)
+    try:
+        return _extract(name, max_pages, time_limit, started)
+    except PdfError:
+        raise
+    except Exception as exc:
+        raise _describe(name, exc) from None
+
+
+def _describe(path: str, exc: BaseException) -> PdfError:
+    kind = type(exc).__name__
+    if "Password" in kind or "Encrypt" in kind:
+        return _fail(path, "is encrypted; a password is needed to read it")
+    if kind == "PdfminerException" and exc.args and isinstance(exc.args[0], BaseException):
+        return _describe(path, exc.args[0])
+    if kind in ("PDFSyntaxError", "PSEOF", "PSSyntaxError", "PdfminerException",
+                "PDFNoValidXRef"):
+        return _fail(path, f"is damaged or not a PDF ({kind}: {exc})")
+    return _fail(path, f"cannot be read as a PDF ({kind}: {exc})")
+
+
+def _extract(path: str, max_pages: int, time_limit: float, started: float) -> PdfExtraction:
+    import pdfplumber
+
+    reader = _Reader(path)
+    with pdfplumber.open(path) as pdf:
+        count = _page_count(pdf)
+        if count is not None and count > max_pages:
+            raise _fail(path, f"has {count} pages, more than the limit of {max_pages}")
+        pages = pdf.pages
+        if len(pages) > max_pages:
+            raise _fail(path, f"has {len(pages)} pages, more than the limit of {max_pages}")
+        if not pages:
+            raise _fail(path, "has no pages")
+        text_pages = 0
+        for number, page in enumerate(pages, start=1):
+            elapsed = time.perf_counter() - started
+            if elapsed > time_limit:
+                raise _fail(path, f"reading stopped at the time limit of {time_limit:g} s "
+                                  f"after {number - 1} of {len(pages)} pages")
+            width, height = float(page.width), float(page.height)
+            if width > MAX_PAGE_SIDE_PT or height > MAX_PAGE_SIDE_PT:
+                raise _fail(path, f"page {number} is {width:,.0f} x {height:,.0f} pt, larger "
+                                  f"than the PDF limit of {MAX_PAGE_SIDE_PT:,.0f} pt (200 in)")
+            words = page.extract_words(x_tolerance=1.5, y_tolerance=2.0)
+            if not words:
+                reader.notes.append(f"page {number} has no text layer (image only): skipped")
+                page.close()
+                continue
+            text_pages += 1
+            lines = group_lines(words, vertical_rules(page))
+            reader.read_page(number, lines)
+            page.close()
+        if text_pages == 0:
+            raise _fail(path, f"has no text layer on any of its {len(pages)} pages (image "
+                              "only; OCR is not supported)")
+        records = reader.finish()
+        if not records:
+            reader.notes.append("no machine data found")
+        return PdfExtraction(path, records, reader.unmapped, reader.notes, len(pages))
+
+
+def dump_records(extraction: PdfExtraction, fmt: str) -> str:
+    """The records as ``{"records": [...]}`` in ``fmt`` ``'json'`` or ``'yaml'``."""
+    document = {"records": [record.data for record in extraction.records]}
+    if fmt == "json":
+        return json.dumps(document, indent=2, ensure_ascii=False) + "\n"
+    if fmt == "yaml":
+        header = f"# records read from {extraction.path}\n"
+        return header + yaml.safe_dump(document, allow_unicode=True, sort_keys=False)
+    raise ValueError(f"unknown format {fmt!r}: use 'json' or 'yaml'")
