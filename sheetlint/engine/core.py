@@ -61,6 +61,7 @@ class Derivation:
     estimate: bool = False
     note: str | None = None
     sensitivity: dict[str, float] | None = None
+    temperature: float | None = None  # kelvin, reference temperature of the derived value
 
 
 @dataclass(slots=True)

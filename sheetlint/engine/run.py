@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from functools import cache
 from typing import Any
 
 from pydantic import ValidationError
@@ -63,6 +64,38 @@ def validation_message(exc: ValidationError, data: Any) -> str:
     return "; ".join(parts)
 
 
+@cache
+def _record_validator() -> Any:
+    import jsonschema
+
+    from sheetlint.model import file_json_schema
+
+    schema = file_json_schema()
+    record_schema = {"$schema": schema["$schema"], "$ref": "#/$defs/MachineRecord",
+                     "$defs": schema["$defs"]}
+    return jsonschema.Draft202012Validator(record_schema)
+
+
+def schema_message(data: Any) -> str | None:
+    """Structural problems found by the committed JSON Schema, each with its field path."""
+    try:
+        errors = sorted(_record_validator().iter_errors(data), key=lambda e: list(e.path))
+    except Exception:  # a schema engine failure must not hide the record's own problem
+        return None
+    if not errors:
+        return None
+    parts = []
+    for err in errors[:5]:
+        path = _loc_text(tuple(err.absolute_path))
+        found = err.instance
+        shown = repr(found) if isinstance(found, (str, int, float, bool)) else type(found).__name__
+        if err.validator == "required":
+            parts.append(f"{path or '(record)'}: {err.message}")
+        else:
+            parts.append(f"{path or '(record)'}: {err.message[:120]} (found {shown[:60]})")
+    return "; ".join(parts)
+
+
 def _loc_text(loc: tuple[Any, ...]) -> str:
     out = ""
     for part in loc:
@@ -86,7 +119,8 @@ def check_record(raw: RawRecord, settings: Settings | None = None) -> RecordResu
     try:
         record = MachineRecord.model_validate(data)
     except ValidationError as exc:
-        return RecordResult(label, validation_message(exc, data), index=raw.index)
+        message = schema_message(data) or validation_message(exc, data)
+        return RecordResult(label, message, index=raw.index)
     return run_engine(record, settings, raw.locate, raw.index)
 
 
@@ -134,7 +168,7 @@ def derive(sheet: Sheet, relations: list[Any]) -> None:
                 values[d.field] = Known(
                     d.value, d.uncertainty, ESTIMATE if d.estimate else DERIVED, relation.rule,
                     d.inputs, note=d.note, sensitivity=d.sensitivity,
-                    temperature=getattr(d, "temperature", None))
+                    temperature=d.temperature)
                 changed = True
         if not changed:
             return

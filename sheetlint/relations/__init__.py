@@ -5,4 +5,5 @@ from sheetlint.relations import (  # noqa: F401
     electrical,
     emf,
     mechanics,
+    standards,
 )
