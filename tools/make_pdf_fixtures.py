@@ -333,9 +333,10 @@ CATALOGUE_RATINGS = (  # kW, efficiency
 )
 
 
-def catalogue_row(power_kw: float, efficiency: float) -> tuple[list[str], dict]:
+def catalogue_row(power_kw: float, efficiency: float, name: str | None = None
+                  ) -> tuple[list[str], dict]:
     d = design_spm(power_kw, 3000, 6, 400, efficiency, margin=0.07)
-    name = f"NW-G {power_kw:g}-6".replace(".", ",")
+    name = name or f"NW-G {power_kw:g}-6".replace(".", ",")
     cells = [name, f"{power_kw:g}", thousands("3000", " "), sig(d.torque_nm),
              sig(d.current_a), f"{d.power_factor:.3f}", f"{efficiency * 100:.1f}",
              sig(d.ke_20_v_per_krpm), sig(d.resistance_20_ohm * 1000, 3)]
@@ -535,7 +536,9 @@ def build_catalogue_pages(path: Path, pages: int) -> None:
     for page in range(pages):
         pdf.add_page()
         pdf.heading(70, f"Series NW-G, sheet {page + 1}", 11)
-        rows = [catalogue_row(p * (1 + 0.01 * page), e)[0] for p, e in CATALOGUE_RATINGS]
+        rows = [catalogue_row(float(sig(p * (1 + 0.01 * (page % 7)), 3)), e,
+                              f"G{page + 1}-{index + 1}")[0]
+                for index, (p, e) in enumerate(CATALOGUE_RATINGS)]
         pdf.table([*header, *rows], CATALOGUE_COLUMNS, 95, row_height=14, bold_rows=2)
     pdf.output(str(path))
 
