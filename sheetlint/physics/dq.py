@@ -1,0 +1,631 @@
+"""Steady-state dq model of a three-phase sinusoidal permanent-magnet synchronous machine.
+
+Amplitude-invariant Park transform: currents and voltages are **peak phase** values of the
+equivalent star circuit; ``p`` pole pairs; ``omega_e = p * omega_mech``.
+
+.. math::
+
+    u_d = R\\,i_d - \\omega_e L_q i_q, \\qquad
+    u_q = R\\,i_q + \\omega_e (L_d i_d + \\psi), \\qquad
+    T = \\tfrac{3}{2}\\,p\\,\\bigl(\\psi i_q + (L_d - L_q)\\,i_d i_q\\bigr)
+
+Line-to-line rms = peak phase x sqrt(3/2). Back-EMF constant (line rms per mechanical rad/s)
+``Ke = sqrt(3/2) * p * psi``.
+
+Everything here is a pure function of SI floats: closed forms and a few safeguarded Newton
+steps, no scipy (scipy is the independent solver of the tests only).
+
+References
+----------
+.. [1] R. Krishnan, *Permanent Magnet Synchronous and Brushless DC Motor Drives*, CRC Press,
+   2010 (dq model, MTPA, flux weakening; chapter and page from memory).
+.. [2] W. L. Soong, T. J. E. Miller, "Field-weakening performance of brushless synchronous AC
+   motor drives", IEE Proc. Electr. Power Appl. 141(6), 1994 (characteristic current; from
+   memory).
+.. [3] Power-electronics texts for the converter voltages: six-pulse diode bridge
+   ``U_dc = 3 sqrt(2)/pi * U_LL``; space-vector modulation ``U_LL,rms <= U_dc/sqrt(2)``
+   (REFERENCES.md section 8).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable
+from dataclasses import dataclass
+from typing import Any
+
+SQRT2 = math.sqrt(2.0)
+SQRT3 = math.sqrt(3.0)
+SQRT_3_2 = math.sqrt(1.5)
+RPM = 2.0 * math.pi / 60.0  # rad/s per r/min
+
+#: mean DC voltage of a six-pulse diode bridge per volt of line rms mains, 3*sqrt(2)/pi
+DIODE_BRIDGE_DC_RATIO = 3.0 * SQRT2 / math.pi
+
+_REL_TOL = 1e-13
+_MAX_ITER = 100
+
+
+@dataclass(frozen=True, slots=True)
+class DqMachine:
+    """Parameters of the linear dq model.
+
+    Attributes
+    ----------
+    flux_linkage : float
+        PM flux linkage psi, peak per phase. [Wb]
+    ld, lq : float
+        d- and q-axis inductance per phase of the equivalent star. [H]
+    resistance : float
+        Phase resistance of the equivalent star (hot). [ohm]
+    pole_pairs : float
+        Pole pairs p. [-]
+    """
+
+    flux_linkage: float
+    ld: float
+    lq: float
+    resistance: float
+    pole_pairs: float
+
+    def valid(self) -> bool:
+        """True when every parameter is finite and in range (psi, L, p > 0, R >= 0)."""
+        values = (self.flux_linkage, self.ld, self.lq, self.resistance, self.pole_pairs)
+        return (all(math.isfinite(v) for v in values) and self.flux_linkage > 0.0
+                and self.ld > 0.0 and self.lq > 0.0 and self.resistance >= 0.0
+                and self.pole_pairs > 0.0)
+
+
+@dataclass(frozen=True, slots=True)
+class OperatingPoint:
+    """A solved steady-state operating point (peak phase dq quantities, SI).
+
+    ``region`` is ``"mtpa"`` (least current, voltage limit not reached), ``"field-weakening"``
+    (on the voltage limit, more negative i_d than MTPA) or ``"unreachable"`` (the torque cannot
+    be made at this speed within the voltage limit; the MTPA point is returned).
+    ``load_angle`` is the angle from the q-axis (back-EMF) to the voltage vector [rad];
+    ``power_factor`` the displacement factor cos(phi) >= 0 when motoring; ``leading`` True
+    when the current leads the voltage.
+    """
+
+    id: float
+    iq: float
+    ud: float
+    uq: float
+    torque: float
+    speed: float
+    current_rms: float
+    line_voltage_rms: float
+    power_factor: float
+    leading: bool
+    load_angle: float
+    copper_loss: float
+    input_power: float
+    region: str
+
+    @property
+    def feasible(self) -> bool:
+        return self.region != "unreachable"
+
+
+# --- conversions -----------------------------------------------------------------------------
+def flux_linkage_from_ke(ke: float, pole_pairs: float) -> float:
+    """psi [Wb peak/phase] from Ke [V line rms per mechanical rad/s]: psi = Ke/(sqrt(3/2) p).
+
+    Worked vector (REFERENCES.md section 4, our own derived consistency vector): p = 4,
+    Ke = 51.302 V/krpm = 0.48990 V*s/rad gives psi = 0.100 Wb.
+    """
+    return ke / (SQRT_3_2 * pole_pairs)
+
+
+def ke_from_flux_linkage(psi: float, pole_pairs: float) -> float:
+    """Ke [V line rms per mechanical rad/s] = sqrt(3/2) * p * psi."""
+    return SQRT_3_2 * pole_pairs * psi
+
+
+def line_rms_from_peak_phase(u_peak_phase: float) -> float:
+    """Line-to-line rms voltage of a balanced set from its peak phase value: x sqrt(3/2)."""
+    return u_peak_phase * SQRT_3_2
+
+
+def peak_phase_from_line_rms(u_line_rms: float) -> float:
+    """Peak phase voltage from a line-to-line rms voltage: / sqrt(3/2)."""
+    return u_line_rms / SQRT_3_2
+
+
+# --- converter voltage (REFERENCES.md section 8) -------------------------------------------
+def diode_bridge_dc_voltage(mains_line_rms: float) -> float:
+    """Mean DC-link voltage of a six-pulse diode bridge under load: 3 sqrt(2)/pi * U_LL [V]."""
+    return DIODE_BRIDGE_DC_RATIO * mains_line_rms
+
+
+def svpwm_line_voltage(dc_link: float) -> float:
+    """Largest linear fundamental line rms voltage with space-vector modulation: U_dc/sqrt(2)."""
+    return dc_link / SQRT2
+
+
+def peak_line_back_emf(ke: float, speed: float) -> float:
+    """Peak line-to-line back-EMF [V] at a mechanical speed [rad/s]: sqrt(2) * Ke * omega."""
+    return SQRT2 * ke * speed
+
+
+def speed_at_back_emf(ke: float, peak_line_voltage: float) -> float:
+    """Mechanical speed [rad/s] at which the peak line back-EMF reaches a voltage (DC link).
+
+    Vector (REFERENCES.md section 8, derived): Ke = 51.3 V/krpm on 540.19 V -> 7446 r/min.
+    """
+    return peak_line_voltage / (SQRT2 * ke)
+
+
+# --- torque and voltage ----------------------------------------------------------------------
+def electromagnetic_torque(machine: DqMachine, i_d: float, i_q: float) -> float:
+    """T = 3/2 p (psi i_q + (L_d - L_q) i_d i_q) [N*m], currents in A peak."""
+    return 1.5 * machine.pole_pairs * i_q * (machine.flux_linkage
+                                              + (machine.ld - machine.lq) * i_d)
+
+
+def stator_voltage(machine: DqMachine, i_d: float, i_q: float,
+                   omega_e: float) -> tuple[float, float]:
+    """(u_d, u_q) [V peak phase] at electrical speed omega_e [rad/s], steady state."""
+    r = machine.resistance
+    return (r * i_d - omega_e * machine.lq * i_q,
+            r * i_q + omega_e * (machine.ld * i_d + machine.flux_linkage))
+
+
+def mtpa_currents_at_current(machine: DqMachine, current_peak: float) -> tuple[float, float]:
+    """Maximum-torque-per-ampere (i_d, i_q) for a current amplitude [A peak].
+
+    .. math:: i_d = \\frac{2\\,\\Delta L\\, I^2}{\\psi + \\sqrt{\\psi^2 + 8\\,\\Delta L^2 I^2}},
+        \\quad \\Delta L = L_d - L_q, \\quad i_q = \\sqrt{I^2 - i_d^2}
+
+    the rationalised form of i_d = psi/(4(L_q-L_d)) - sqrt(psi^2/(16(L_q-L_d)^2) + I^2/2)
+    (REFERENCES.md section 4), which stays exact as L_d -> L_q (SPM: i_d = 0).
+    """
+    delta_l = machine.ld - machine.lq
+    psi = machine.flux_linkage
+    i_d = 2.0 * delta_l * current_peak ** 2 / (
+        psi + math.sqrt(psi * psi + 8.0 * delta_l * delta_l * current_peak ** 2))
+    return i_d, math.sqrt(max(current_peak ** 2 - i_d * i_d, 0.0))
+
+
+def _mtpa_id_for_iq(psi: float, delta_l: float, i_q: float) -> float:
+    """i_d on the MTPA curve psi i_d + dL (i_d^2 - i_q^2) = 0 for a given i_q (rationalised)."""
+    return 2.0 * delta_l * i_q * i_q / (psi + math.sqrt(psi * psi + 4.0 * delta_l * delta_l
+                                                         * i_q * i_q))
+
+
+def mtpa_currents_for_torque(machine: DqMachine, torque: float) -> tuple[float, float]:
+    """Least-current (i_d, i_q) [A peak] that makes ``torque`` [N*m] (no voltage limit).
+
+    Newton iteration on i_q along the MTPA curve, started above the root (torque is convex in
+    i_q there, so the iteration falls monotonically); i_d = 0 exactly when L_d = L_q.
+    Negative torque mirrors i_q.
+    """
+    sign = -1.0 if torque < 0.0 else 1.0
+    target = abs(torque) / (1.5 * machine.pole_pairs)  # psi i_q + dL i_d i_q
+    if target == 0.0:
+        return 0.0, 0.0
+    psi = machine.flux_linkage
+    delta_l = machine.ld - machine.lq
+    if delta_l == 0.0:
+        return 0.0, sign * target / psi
+    i_q = min(target / psi, math.sqrt(target / abs(delta_l)))
+    for _ in range(_MAX_ITER):
+        root = math.sqrt(psi * psi + 4.0 * delta_l * delta_l * i_q * i_q)
+        i_d = 2.0 * delta_l * i_q * i_q / (psi + root)
+        f = i_q * (psi + delta_l * i_d) - target
+        di_d = 2.0 * delta_l * i_q / root
+        slope = psi + delta_l * i_d + delta_l * i_q * di_d
+        step = f / slope
+        i_q_new = i_q - step
+        if i_q_new <= 0.0:
+            i_q_new = 0.5 * i_q
+        if abs(i_q_new - i_q) <= _REL_TOL * i_q:
+            i_q = i_q_new
+            break
+        i_q = i_q_new
+    return _mtpa_id_for_iq(psi, delta_l, i_q), sign * i_q
+
+
+# --- operating point with a voltage limit ----------------------------------------------------
+def _torque_curve_voltage(machine: DqMachine, c: float, omega_e: float,
+                          i_d: float) -> tuple[float, float]:
+    """|u|^2 and d|u|^2/di_d along the constant-torque curve i_q = c/(psi + dL i_d)."""
+    delta_l = machine.ld - machine.lq
+    s = machine.flux_linkage + delta_l * i_d
+    i_q = c / s
+    di_q = -delta_l * i_q / s
+    r = machine.resistance
+    u_d = r * i_d - omega_e * machine.lq * i_q
+    u_q = r * i_q + omega_e * (machine.ld * i_d + machine.flux_linkage)
+    du_d = r - omega_e * machine.lq * di_q
+    du_q = r * di_q + omega_e * machine.ld
+    return u_d * u_d + u_q * u_q, 2.0 * (u_d * du_d + u_q * du_q)
+
+
+def _field_weakening_id(machine: DqMachine, c: float, omega_e: float, u2: float,
+                        id_mtpa: float) -> float | None:
+    """Largest i_d < id_mtpa on the torque curve with |u|^2 = u2, or None when none exists.
+
+    Walks left from the MTPA point (doubling steps) until the voltage is within the limit or
+    has passed its minimum; then a Newton iteration safeguarded by bisection on the bracket.
+    Assumes |u|^2 is unimodal along the curve (true for the linear model with psi > 0).
+    """
+    psi, ld = machine.flux_linkage, machine.ld
+    delta_l = ld - machine.lq
+    lower = -math.inf if delta_l <= 0.0 else -psi / delta_l  # torque curve needs psi+dL*id > 0
+    hi = id_mtpa
+    _, dh_hi = _torque_curve_voltage(machine, c, omega_e, hi)
+    if dh_hi <= 0.0:
+        return None
+    step = max(0.5 * psi / ld, abs(id_mtpa), 1e-9)
+    lo = None
+    for _ in range(200):
+        a = hi - step
+        if a <= lower:
+            a = 0.5 * (hi + lower)
+        h_a, dh_a = _torque_curve_voltage(machine, c, omega_e, a)
+        if h_a <= u2:
+            lo = a
+            break
+        if dh_a <= 0.0:
+            # passed the voltage minimum above the limit: locate it by bisection on the slope
+            left, right = a, hi
+            for _ in range(200):
+                mid = 0.5 * (left + right)
+                h_m, dh_m = _torque_curve_voltage(machine, c, omega_e, mid)
+                if h_m <= u2:
+                    lo = mid
+                    break
+                if dh_m > 0.0:
+                    right = mid
+                else:
+                    left = mid
+                if right - left <= _REL_TOL * (abs(left) + abs(right)):
+                    break
+            if lo is None:
+                return None
+            break
+        hi = a
+        step *= 2.0
+    if lo is None:
+        return None
+    return _bracketed_newton(lambda x: _shifted(machine, c, omega_e, u2, x), lo, hi)
+
+
+def _shifted(machine: DqMachine, c: float, omega_e: float, u2: float,
+             i_d: float) -> tuple[float, float]:
+    h, dh = _torque_curve_voltage(machine, c, omega_e, i_d)
+    return h - u2, dh
+
+
+def _bracketed_newton(f: Callable[[float], tuple[float, float]], lo: float, hi: float) -> float:
+    """Root of an increasing function on [lo, hi] (f(lo) <= 0 <= f(hi)); Newton + bisection."""
+    x = hi
+    fx, dfx = f(x)
+    for _ in range(_MAX_ITER):
+        if fx == 0.0:
+            return x
+        if fx > 0.0:
+            hi = x
+        else:
+            lo = x
+        x_new = x - fx / dfx if dfx > 0.0 else 0.5 * (lo + hi)
+        if not lo < x_new < hi:
+            x_new = 0.5 * (lo + hi)
+        if abs(x_new - x) <= _REL_TOL * (abs(x_new) + abs(hi - lo) * 1e-3 + 1e-300):
+            return x_new
+        x = x_new
+        fx, dfx = f(x)
+        if hi - lo <= _REL_TOL * (abs(lo) + abs(hi)):
+            return x
+    return x
+
+
+def solve_point(machine: DqMachine, i_d: float, i_q: float, speed: float,
+                region: str) -> OperatingPoint:
+    """All derived quantities of a given current vector at a mechanical speed [rad/s]."""
+    omega_e = machine.pole_pairs * speed
+    u_d, u_q = stator_voltage(machine, i_d, i_q, omega_e)
+    i_mag = math.hypot(i_d, i_q)
+    u_mag = math.hypot(u_d, u_q)
+    p_in = 1.5 * (u_d * i_d + u_q * i_q)
+    if i_mag > 0.0 and u_mag > 0.0:
+        power_factor = abs(p_in) / (1.5 * u_mag * i_mag)
+        # reactive power q = 3/2 (u_q i_d - u_d i_q): negative -> current leads voltage
+        leading = (u_q * i_d - u_d * i_q) < 0.0
+    else:
+        power_factor, leading = 1.0, False
+    return OperatingPoint(
+        id=i_d, iq=i_q, ud=u_d, uq=u_q,
+        torque=electromagnetic_torque(machine, i_d, i_q), speed=speed,
+        current_rms=i_mag / SQRT2, line_voltage_rms=u_mag * SQRT_3_2,
+        power_factor=min(power_factor, 1.0), leading=leading,
+        load_angle=math.atan2(-u_d, u_q),
+        copper_loss=1.5 * machine.resistance * i_mag * i_mag, input_power=p_in, region=region)
+
+
+def operating_point(machine: DqMachine, torque: float, speed: float,
+                    line_voltage_limit: float | None = None) -> OperatingPoint:
+    """Least-current operating point for a torque [N*m] at a mechanical speed [rad/s].
+
+    Below base speed the MTPA point (closed form / Newton); when its voltage exceeds
+    ``line_voltage_limit`` [V line rms] the point on the voltage limit with the least current
+    (field weakening: i_d more negative than MTPA, same torque). ``region`` says which.
+    """
+    i_d, i_q = mtpa_currents_for_torque(machine, torque)
+    if line_voltage_limit is None:
+        return solve_point(machine, i_d, i_q, speed, "mtpa")
+    omega_e = machine.pole_pairs * speed
+    u_limit = peak_phase_from_line_rms(line_voltage_limit)
+    u_d, u_q = stator_voltage(machine, i_d, i_q, omega_e)
+    u2 = u_limit * u_limit
+    if u_d * u_d + u_q * u_q <= u2 * (1.0 + 1e-12) or torque == 0.0:
+        return solve_point(machine, i_d, i_q, speed, "mtpa")
+    c = torque / (1.5 * machine.pole_pairs)
+    i_d_fw = _field_weakening_id(machine, c, omega_e, u2, i_d)
+    if i_d_fw is None:
+        return solve_point(machine, i_d, i_q, speed, "unreachable")
+    i_q_fw = c / (machine.flux_linkage + (machine.ld - machine.lq) * i_d_fw)
+    return solve_point(machine, i_d_fw, i_q_fw, speed, "field-weakening")
+
+
+# --- field weakening, limits -----------------------------------------------------------------
+def characteristic_current(machine: DqMachine) -> float:
+    """Characteristic (short-circuit) current psi/L_d [A peak] (Soong & Miller 1994)."""
+    return machine.flux_linkage / machine.ld
+
+
+def max_speed_at_current(machine: DqMachine, current_rms: float,
+                         line_voltage_limit: float) -> float:
+    """Highest mechanical speed [rad/s] reachable with |i| <= current within the voltage limit.
+
+    The no-load point of deepest field weakening, i_d = -I, i_q = 0:
+
+    .. math:: \\omega_e = \\frac{\\sqrt{U^2 - (R I)^2}}{\\psi - L_d I}
+
+    ``math.inf`` when I >= psi/L_d (the drive is not voltage-limited in this model), 0.0 when
+    R I alone exceeds the voltage.
+    """
+    current = current_rms * SQRT2
+    u = peak_phase_from_line_rms(line_voltage_limit)
+    resistive = machine.resistance * current
+    if resistive >= u:
+        return 0.0
+    net_flux = machine.flux_linkage - machine.ld * current
+    if net_flux <= 1e-12 * machine.flux_linkage:
+        return math.inf
+    return math.sqrt(u * u - resistive * resistive) / net_flux / machine.pole_pairs
+
+
+def base_speed(machine: DqMachine, current_rms: float, line_voltage_limit: float) -> float:
+    """Speed [rad/s] at which the MTPA point of ``current_rms`` reaches the voltage limit.
+
+    |u(omega)|^2 is a quadratic in omega_e for fixed currents; its positive root.
+    """
+    i_d, i_q = mtpa_currents_at_current(machine, current_rms * SQRT2)
+    r = machine.resistance
+    u = peak_phase_from_line_rms(line_voltage_limit)
+    a_d, b_d = -machine.lq * i_q, r * i_d
+    a_q, b_q = machine.ld * i_d + machine.flux_linkage, r * i_q
+    a = a_d * a_d + a_q * a_q
+    b = 2.0 * (a_d * b_d + a_q * b_q)
+    c = b_d * b_d + b_q * b_q - u * u
+    if c >= 0.0:
+        return 0.0
+    omega_e = (-b + math.sqrt(b * b - 4.0 * a * c)) / (2.0 * a)
+    return omega_e / machine.pole_pairs
+
+
+def _currents_at_voltage_angle(machine: DqMachine, u: float, omega_e: float,
+                               angle: float) -> tuple[float, float]:
+    """(i_d, i_q) for a voltage vector of amplitude u [V peak] at ``angle`` ahead of q."""
+    r = machine.resistance
+    u_d = -u * math.sin(angle)
+    u_q = u * math.cos(angle) - omega_e * machine.flux_linkage
+    det = r * r + omega_e * omega_e * machine.ld * machine.lq
+    i_d = (r * u_d + omega_e * machine.lq * u_q) / det
+    i_q = (r * u_q - omega_e * machine.ld * u_d) / det
+    return i_d, i_q
+
+
+def _torque_at_voltage_angle(machine: DqMachine, u: float, omega_e: float,
+                             angle: float) -> tuple[float, float, float]:
+    """Torque and its first two derivatives in the load angle, voltage amplitude fixed."""
+    r = machine.resistance
+    det = r * r + omega_e * omega_e * machine.ld * machine.lq
+    s, c = math.sin(angle), math.cos(angle)
+    u_d, u_q = -u * s, u * c - omega_e * machine.flux_linkage
+    du_d, du_q = -u * c, -u * s
+    ddu_d, ddu_q = u * s, -u * c
+    wlq, wld = omega_e * machine.lq, omega_e * machine.ld
+    i_d = (r * u_d + wlq * u_q) / det
+    i_q = (r * u_q - wld * u_d) / det
+    di_d = (r * du_d + wlq * du_q) / det
+    di_q = (r * du_q - wld * du_d) / det
+    ddi_d = (r * ddu_d + wlq * ddu_q) / det
+    ddi_q = (r * ddu_q - wld * ddu_d) / det
+    k = 1.5 * machine.pole_pairs
+    psi, dl = machine.flux_linkage, machine.ld - machine.lq
+    t = k * (psi * i_q + dl * i_d * i_q)
+    dt = k * (psi * di_q + dl * (di_d * i_q + i_d * di_q))
+    ddt = k * (psi * ddi_q + dl * (ddi_d * i_q + 2.0 * di_d * di_q + i_d * ddi_q))
+    return t, dt, ddt
+
+
+def pull_out(machine: DqMachine, line_voltage: float, speed: float) -> tuple[float, float]:
+    """Pull-out torque [N*m] and its load angle [rad] at fixed voltage and frequency (U/f).
+
+    With R = 0 the torque is T = a sin d + b sin 2d, a = 3/2 p psi U/(w L_d),
+    b = 3/4 p U^2/w^2 (1/L_q - 1/L_d); its maximum is at cos d = 4b/(a + sqrt(a^2 + 32 b^2)).
+    That is the start of a Newton iteration on dT/dd = 0 with R included.
+    """
+    omega_e = machine.pole_pairs * speed
+    u = peak_phase_from_line_rms(line_voltage)
+    k = 1.5 * machine.pole_pairs
+    a = k * machine.flux_linkage * u / (omega_e * machine.ld)
+    b = 0.5 * k * u * u / (omega_e * omega_e) * (1.0 / machine.lq - 1.0 / machine.ld)
+    start = math.acos(max(-1.0, min(1.0, 4.0 * b / (a + math.sqrt(a * a + 32.0 * b * b)))))
+    t_start = _torque_at_voltage_angle(machine, u, omega_e, start)[0]
+    angle = _newton_maximum(machine, u, omega_e, start)
+    if angle is not None:
+        torque = _torque_at_voltage_angle(machine, u, omega_e, angle)[0]
+        if torque >= t_start:
+            return torque, angle
+    torque, angle = _scan_maximum(machine, u, omega_e)
+    return torque, angle
+
+
+def _newton_maximum(machine: DqMachine, u: float, omega_e: float,
+                    angle: float) -> float | None:
+    """Newton on dT/d(angle) = 0 from ``angle``; None when it leaves a maximum's basin."""
+    for _ in range(30):
+        _, dt, ddt = _torque_at_voltage_angle(machine, u, omega_e, angle)
+        if ddt >= 0.0:
+            return None
+        step = max(-0.2, min(0.2, dt / ddt))
+        angle -= step
+        if abs(step) < 1e-13:
+            return angle
+    return angle
+
+
+def _scan_maximum(machine: DqMachine, u: float, omega_e: float) -> tuple[float, float]:
+    """Largest torque over the load angle: a scan of the full circle, then Newton."""
+    best_t, best = -math.inf, 0.0
+    for j in range(48):
+        angle = -math.pi + 2.0 * math.pi * j / 48.0
+        t = _torque_at_voltage_angle(machine, u, omega_e, angle)[0]
+        if t > best_t:
+            best_t, best = t, angle
+    refined = _newton_maximum(machine, u, omega_e, best)
+    if refined is not None:
+        t = _torque_at_voltage_angle(machine, u, omega_e, refined)[0]
+        if t >= best_t:
+            return t, refined
+    return best_t, best
+
+
+def open_loop_load_angle(machine: DqMachine, line_voltage: float, speed: float,
+                         torque: float) -> float | None:
+    """Load angle [rad] of the stable U/f point that makes ``torque``; None beyond pull-out."""
+    omega_e = machine.pole_pairs * speed
+    u = peak_phase_from_line_rms(line_voltage)
+    t_max, angle_max = pull_out(machine, line_voltage, speed)
+    if torque > t_max:
+        return None
+    hi = angle_max
+
+    def f(x: float) -> tuple[float, float]:
+        t, dt, _ = _torque_at_voltage_angle(machine, u, omega_e, x)
+        return t - torque, dt
+
+    # half a turn back from pull-out the machine generates; else take the torque minimum
+    lo = angle_max - math.pi
+    if f(lo)[0] > 0.0:
+        lo = min((angle_max - 2.0 * math.pi * j / 48.0 for j in range(1, 48)),
+                 key=lambda x: f(x)[0])
+        if f(lo)[0] > 0.0:
+            return None
+    return _bracketed_newton(f, lo, hi)
+
+
+def _max_torque_on_voltage_limit(machine: DqMachine, u: float,
+                                 omega_e: float) -> tuple[float, float, float]:
+    """Maximum torque on the voltage limit (MTPV point): (torque, i_d, i_q)."""
+    t, angle = _scan_maximum(machine, u, max(omega_e, 1e-12))
+    i_d, i_q = _currents_at_voltage_angle(machine, u, max(omega_e, 1e-12), angle)
+    return t, i_d, i_q
+
+
+def max_torque_at_speed(machine: DqMachine, current_rms: float, line_voltage_limit: float,
+                        speed: float) -> tuple[float, float, float, str]:
+    """Largest torque [N*m] with |i| <= current and |u| <= voltage at a speed [rad/s].
+
+    Returns (torque, i_d, i_q, region) with region ``"mtpa"`` (current limit only),
+    ``"field-weakening"`` (both limits), ``"mtpv"`` (voltage limit only) or
+    ``"unreachable"`` (no motoring point).
+    """
+    current = current_rms * SQRT2
+    u = peak_phase_from_line_rms(line_voltage_limit)
+    omega_e = machine.pole_pairs * speed
+    i_d, i_q = mtpa_currents_at_current(machine, current)
+    u_d, u_q = stator_voltage(machine, i_d, i_q, omega_e)
+    if u_d * u_d + u_q * u_q <= u * u:
+        return electromagnetic_torque(machine, i_d, i_q), i_d, i_q, "mtpa"
+    t_v, id_v, iq_v = _max_torque_on_voltage_limit(machine, u, omega_e)
+    if math.hypot(id_v, iq_v) <= current and t_v > 0.0:
+        return t_v, id_v, iq_v, "mtpv"
+    # intersection of current circle and voltage limit: gamma from the MTPA angle to pi/2
+    gamma_mtpa = math.atan2(-i_d, i_q)
+
+    def excess(gamma: float) -> tuple[float, float]:
+        jd, jq = -current * math.sin(gamma), current * math.cos(gamma)
+        vd, vq = stator_voltage(machine, jd, jq, omega_e)
+        dvd = machine.resistance * (-current * math.cos(gamma)) - omega_e * machine.lq * (
+            -current * math.sin(gamma))
+        dvq = machine.resistance * (-current * math.sin(gamma)) + omega_e * machine.ld * (
+            -current * math.cos(gamma))
+        # decreasing in gamma on the arc; return the negative so it increases
+        return -(vd * vd + vq * vq - u * u), -2.0 * (vd * dvd + vq * dvq)
+
+    if excess(0.5 * math.pi)[0] < 0.0:
+        return 0.0, 0.0, 0.0, "unreachable"
+    gamma = _bracketed_newton(excess, gamma_mtpa, 0.5 * math.pi)
+    jd, jq = -current * math.sin(gamma), current * math.cos(gamma)
+    t = electromagnetic_torque(machine, jd, jq)
+    if t <= 0.0:
+        return 0.0, 0.0, 0.0, "unreachable"
+    return t, jd, jq, "field-weakening"
+
+
+def torque_speed_envelope(params: DqMachine, current_limit_rms: float,
+                          line_voltage_limit_rms: float, max_speed: float,
+                          n_points: int = 60) -> dict[str, Any]:
+    """Torque-speed envelope (current and voltage limit) as plain JSON-serialisable lists.
+
+    Parameters
+    ----------
+    params : DqMachine
+        The machine. [SI]
+    current_limit_rms : float
+        Converter/machine current limit. [A rms]
+    line_voltage_limit_rms : float
+        Largest line voltage the converter gives. [V rms]
+    max_speed : float
+        Upper end of the speed axis. [rad/s]
+    n_points : int
+        Number of speeds, evenly spaced from 0 to ``max_speed`` (the base speed is added).
+
+    Returns
+    -------
+    dict
+        ``speed_rpm``, ``torque_Nm``, ``power_kW``, ``current_A`` (rms), ``region`` (lists of
+        equal length), ``base_speed_rpm``, ``max_speed_rpm``, ``characteristic_current_A``
+        (rms), ``current_limit_A``, ``voltage_limit_V``, ``speed_limit_rpm`` (highest speed
+        reachable at the current limit; None when unlimited).
+    """
+    n_points = max(2, int(n_points))
+    speeds = [max_speed * j / (n_points - 1) for j in range(n_points)]
+    omega_base = base_speed(params, current_limit_rms, line_voltage_limit_rms)
+    if 0.0 < omega_base < max_speed:
+        speeds.append(omega_base)
+        speeds.sort()
+    out: dict[str, Any] = {"speed_rpm": [], "torque_Nm": [], "power_kW": [], "current_A": [],
+                           "region": []}
+    for speed in speeds:
+        t, i_d, i_q, region = max_torque_at_speed(params, current_limit_rms,
+                                                  line_voltage_limit_rms, speed)
+        out["speed_rpm"].append(speed / RPM)
+        out["torque_Nm"].append(t)
+        out["power_kW"].append(t * speed / 1e3)
+        out["current_A"].append(math.hypot(i_d, i_q) / SQRT2)
+        out["region"].append(region)
+    limit = max_speed_at_current(params, current_limit_rms, line_voltage_limit_rms)
+    out["base_speed_rpm"] = omega_base / RPM
+    out["max_speed_rpm"] = max_speed / RPM
+    out["characteristic_current_A"] = characteristic_current(params) / SQRT2
+    out["current_limit_A"] = current_limit_rms
+    out["voltage_limit_V"] = line_voltage_limit_rms
+    out["speed_limit_rpm"] = None if math.isinf(limit) else limit / RPM
+    return out
