@@ -203,3 +203,23 @@ def test_fixture_generator_is_deterministic(tmp_path: Path) -> None:
         (FIXTURES / "pump_motor_en.pdf").read_bytes()
     assert load(tmp_path / "pump_motor_en.expected.json") == \
         load(FIXTURES / "pump_motor_en.expected.json")
+
+
+@pytest.mark.parametrize("fmt", ["json", "yaml"])
+@pytest.mark.parametrize("name", ["pump_motor_en", "blower_motor_de", "blower_catalogue",
+                                  "pump_two_tables", "scanned_appendix"])
+def test_dumped_records_pass_the_normal_intake_and_model(tmp_path: Path, name: str,
+                                                        fmt: str) -> None:
+    """What ``sheetlint extract`` writes loads back through the JSON/YAML intake and the
+    record model without a file or record error."""
+    from sheetlint.intake.records import load_records
+    from sheetlint.model import MachineRecord
+
+    extraction = extract_pdf(FIXTURES / f"{name}.pdf")
+    path = tmp_path / f"{name}.{fmt}"
+    path.write_text(dump_records(extraction, fmt), encoding="utf-8")
+    loaded = load_records(path)
+    assert len(loaded.records) == len(extraction.records)
+    for raw, record in zip(loaded.records, extraction.records, strict=True):
+        assert raw.data == record.data
+        MachineRecord.model_validate(raw.data)
