@@ -279,6 +279,8 @@ def test_short_circuit_current_above_peak_current_is_a_warning() -> None:
     findings = run(ShortCircuitCurrent, Sheet("sc", values, {}))
     assert [f.severity for f in findings] == ["warning"]
     assert "demagnetisation" in findings[0].message and "141.4 A" in findings[0].message
+    values["limits.peak_current"] = known(150.0)
+    assert run(ShortCircuitCurrent, Sheet("sc", values, {})) == []
 
 
 # --- robustness ----------------------------------------------------------------------------

@@ -299,9 +299,10 @@ def _shifted(machine: DqMachine, c: float, omega_e: float, u2: float,
     return h - u2, dh
 
 
-def _bracketed_newton(f: Callable[[float], tuple[float, float]], lo: float, hi: float) -> float:
+def _bracketed_newton(f: Callable[[float], tuple[float, float]], lo: float, hi: float,
+                      start: float | None = None) -> float:
     """Root of an increasing function on [lo, hi] (f(lo) <= 0 <= f(hi)); Newton + bisection."""
-    x = hi
+    x = hi if start is None or not lo < start < hi else start
     fx, dfx = f(x)
     for _ in range(_MAX_ITER):
         if fx == 0.0:
@@ -507,11 +508,15 @@ def _scan_maximum(machine: DqMachine, u: float, omega_e: float) -> tuple[float, 
 
 
 def open_loop_load_angle(machine: DqMachine, line_voltage: float, speed: float,
-                         torque: float) -> float | None:
-    """Load angle [rad] of the stable U/f point that makes ``torque``; None beyond pull-out."""
+                         torque: float,
+                         pull_out_point: tuple[float, float] | None = None) -> float | None:
+    """Load angle [rad] of the stable U/f point that makes ``torque``; None beyond pull-out.
+
+    ``pull_out_point`` is the result of :func:`pull_out` when the caller has it already.
+    """
     omega_e = machine.pole_pairs * speed
     u = peak_phase_from_line_rms(line_voltage)
-    t_max, angle_max = pull_out(machine, line_voltage, speed)
+    t_max, angle_max = pull_out_point or pull_out(machine, line_voltage, speed)
     if torque > t_max:
         return None
     hi = angle_max
@@ -527,7 +532,9 @@ def open_loop_load_angle(machine: DqMachine, line_voltage: float, speed: float,
                  key=lambda x: f(x)[0])
         if f(lo)[0] > 0.0:
             return None
-    return _bracketed_newton(f, lo, hi)
+    # start: the R = 0 SPM answer asin(T/T_max), stretched to the pull-out angle
+    guess = math.asin(max(0.0, min(1.0, torque / t_max))) * angle_max / (0.5 * math.pi)
+    return _bracketed_newton(f, lo, hi, guess)
 
 
 def _max_torque_on_voltage_limit(machine: DqMachine, u: float,

@@ -155,6 +155,11 @@ def _resistance(sheet: Sheet) -> tuple[float, str | None, str | None, bool, floa
     return 0.0, None, "no resistance given: copper drop neglected", False, 0.0
 
 
+#: one-entry cache: the relations of this module check the same sheet one after another. It
+#: holds the sheet itself, so an identity test cannot be fooled by a recycled id.
+_CACHE: dict[str, object] = {}
+
+
 def model_inputs(sheet: Sheet, rule: str, temperature: str = "hot",
                  need_inductances: bool = True) -> ModelInputs | None:
     """The dq machine of a sheet, or None when psi, p (and L_d, L_q) are not known.
@@ -162,6 +167,20 @@ def model_inputs(sheet: Sheet, rule: str, temperature: str = "hot",
     Values derived by ``rule`` itself are not used (``Sheet.usable``); estimates are used but
     flagged, so that no error is raised on them.
     """
+    key = (rule, temperature, need_inductances, len(sheet.values))
+    if _CACHE.get("sheet") is sheet and _CACHE.get("key") in (
+            key, ("*", temperature, need_inductances, len(sheet.values))):
+        return _CACHE["inputs"]  # type: ignore[return-value]
+    inputs = _model_inputs(sheet, rule, temperature, need_inductances)
+    if not any(k.rule == rule for k in sheet.values.values()):
+        # nothing derived by this rule: the result holds for the module's other rules too
+        key = ("*", temperature, need_inductances, len(sheet.values))
+    _CACHE.update(sheet=sheet, key=key, inputs=inputs)
+    return inputs
+
+
+def _model_inputs(sheet: Sheet, rule: str, temperature: str,
+                  need_inductances: bool) -> ModelInputs | None:
     pairs = _pole_pairs(sheet)
     if pairs is None or not sheet.usable(rule, pairs[1], allow_estimates=True):
         return None
@@ -300,14 +319,18 @@ class _Band:
 
 
 def _band(machine: DqMachine, torque: float, speed: float, limit: float | None,
-          lq_saturation: float, torque_allowance: float) -> _Band:
+          lq_saturation: float, torque_allowance: float,
+          nominal: OperatingPoint | None = None) -> _Band:
     """Model outputs at the nominal parameters and the saturation/loss corners."""
     points = []
     for lq_factor in (1.0, 1.0 - lq_saturation):
         m = DqMachine(machine.flux_linkage, machine.ld, machine.lq * lq_factor,
                       machine.resistance, machine.pole_pairs)
         for torque_factor in (1.0, 1.0 + torque_allowance):
-            points.append(operating_point(m, torque * torque_factor, speed, limit))
+            if nominal is not None and lq_factor == 1.0 and torque_factor == 1.0:
+                points.append(nominal)
+            else:
+                points.append(operating_point(m, torque * torque_factor, speed, limit))
     nominal = points[0]
     return _Band(nominal,
                  (min(p.current_rms for p in points), max(p.current_rms for p in points)),
@@ -405,14 +428,18 @@ class DqOperatingPoint(Relation):
         else:
             limit_value = None
             notes.append("no voltage limit known: MTPA at any voltage")
-        machine = inputs.machine
-        band = _band(machine, torque_em, speed, limit_value, lq_sat, allowance)
-        nominal = band.nominal
         estimate = inputs.estimate or any(
             (k := sheet.get(n)) is not None and k.is_estimate
             for n in ("rated.speed", *torque_fields, "rated.current", "rated.voltage"))
         base_fields = [*inputs.fields, "rated.speed", *torque_fields]
         unc = inputs.uncertainty + torque_unc + speed_known.uncertainty + base_tol
+        machine = inputs.machine
+        nominal = operating_point(machine, torque_em, speed, limit_value)
+        # the saturation corners are solved only when the nominal model does not already fit
+        band = _Band(nominal, (nominal.current_rms,) * 2, (nominal.line_voltage_rms,) * 2,
+                     (nominal.power_factor,) * 2)
+        if not nominal.feasible or not self._fits(sheet, band, unc):
+            band = _band(machine, torque_em, speed, limit_value, lq_sat, allowance, nominal)
 
         if nominal.region == "unreachable" and limit_value is not None:
             t_max = max_torque_at_speed(machine, 1e9, limit_value, speed)[0]
@@ -861,8 +888,10 @@ class PullOutMargin(Relation):
                 or rated_u.value <= 0.0 or speed.value <= 0.0 or torque[0] <= 0.0):
             return
         min_ratio = float(sheet.option(self.rule, "min_ratio", 1.35))
-        t_po, _ = pull_out(inputs.machine, rated_u.value, speed.value)
-        angle = open_loop_load_angle(inputs.machine, rated_u.value, speed.value, torque[0])
+        pull_out_point = pull_out(inputs.machine, rated_u.value, speed.value)
+        t_po = pull_out_point[0]
+        angle = open_loop_load_angle(inputs.machine, rated_u.value, speed.value, torque[0],
+                                     pull_out_point)
         fields = ["rated.voltage", "rated.speed", *torque[1], *inputs.fields]
         closed = ("Closed-loop (field-oriented) control holds the angle itself; this margin "
                   "concerns open-loop U/f operation.")
@@ -933,7 +962,6 @@ class ShortCircuitCurrent(Relation):
                 f"rated temperature) against the {name.split('.')[-1].replace('_', ' ')} "
                 f"{reference.value:.4g} A. {_join(inputs.notes)}{CAUTION}")
         if i_sc <= reference.value * (1.0 + margin):
-            yield sheet.finding(self, "info", text, fields)
             return
         yield sheet.finding(
             self, "warning",
