@@ -73,7 +73,8 @@ def completed_document(path: str, include_estimates: bool = False,
             else:
                 shown, unit = known.value / kind.display_factor, kind.display_unit
             digits = significant_digits(known.uncertainty)
-            number = float(f"{shown:.{digits}g}")
+            # the value as text keeps its written digits (327 is not 327.0) when read back
+            number = _plain_number(f"{shown:.{digits}g}")
             entry: dict[str, Any] = {"value": number}
             if unit:
                 entry["unit"] = unit
@@ -87,6 +88,17 @@ def completed_document(path: str, include_estimates: bool = False,
 
         return yaml.safe_dump(_plain(document), sort_keys=False, allow_unicode=True), errors
     return json.dumps(_plain(document), indent=2, ensure_ascii=False), errors
+
+
+def _plain_number(text: str) -> str:
+    """``'%g'`` text without an exponent (3.27e+02 → 327), digits kept."""
+    if "e" not in text:
+        return text
+    mantissa, _, exponent = text.partition("e")
+    digits = len(mantissa.replace(".", "").replace("-", "").lstrip("0"))
+    value = float(text)
+    decimals = max(digits - 1 - int(exponent), 0)
+    return f"{value:.{decimals}f}"
 
 
 def _plain(data: Any) -> Any:

@@ -1,7 +1,7 @@
 """PDF extraction against the committed fixtures of ``fixtures/pdf/``.
 
 The fixtures are drawn by ``tools/make_pdf_fixtures.py`` from the layouts real sheets use,
-independently of the extractor; each ``*.expected.json`` lists every field the sheet holds.
+independently of the extractor; each ``*.expected`` lists every field the sheet holds.
 Comparing extraction with them is a check against what was drawn on the page, not against
 the extractor's own output.
 """
@@ -26,7 +26,7 @@ from sheetlint.intake.pdf import (
 )
 
 FIXTURES = Path(__file__).resolve().parent.parent / "fixtures" / "pdf"
-EXPECTED = sorted(FIXTURES.glob("*.expected.json"))
+EXPECTED = sorted(FIXTURES.glob("*.expected"))
 
 
 def flatten(data: dict[str, Any], prefix: str = "") -> dict[str, Any]:
@@ -201,8 +201,8 @@ def test_fixture_generator_is_deterministic(tmp_path: Path) -> None:
     generator.build("pump_motor_en", tmp_path)
     assert (tmp_path / "pump_motor_en.pdf").read_bytes() == \
         (FIXTURES / "pump_motor_en.pdf").read_bytes()
-    assert load(tmp_path / "pump_motor_en.expected.json") == \
-        load(FIXTURES / "pump_motor_en.expected.json")
+    assert load(tmp_path / "pump_motor_en.expected") == \
+        load(FIXTURES / "pump_motor_en.expected")
 
 
 @pytest.mark.parametrize("fmt", ["json", "yaml"])

@@ -16,7 +16,7 @@ from pathlib import Path
 
 import yaml
 
-from sheetlint.synth import MachineSpec, record
+from sheetlint.synth import MachineSpec, design, record
 
 OUT = Path(__file__).resolve().parent.parent / "fixtures"
 
@@ -36,6 +36,17 @@ CONSISTENT = {
 }
 
 
+def safe_max_speed(spec: MachineSpec) -> float:
+    """A maximum speed whose cold peak back-EMF stays under √2·U_mains, rounded down to 50 rpm.
+
+    Ke at 20 °C from the design; the margin of 5 % keeps the demo machines clear of the
+    overspeed-emf warning that a real vendor would have to address.
+    """
+    ke_20 = design(spec)["ke_20"]  # V_LL,rms per rad/s at 20 °C
+    omega = 0.95 * math.sqrt(2) * spec.mains_voltage / (math.sqrt(2) * ke_20)
+    return min(1.2 * spec.speed_rpm, math.floor(omega * 60 / (2 * math.pi) / 50) * 50)
+
+
 def _dump(name: str, data: dict, comment: str) -> None:
     text = "# " + comment.replace("\n", "\n# ") + "\n" + yaml.safe_dump(
         data, sort_keys=False, allow_unicode=True)
@@ -47,7 +58,7 @@ def main() -> None:
     base = {}
     for name, (spec, model, maker) in CONSISTENT.items():
         data = record(spec, model, maker)
-        data["limits"] = {"max_speed": f"{spec.speed_rpm * 1.1:g} rpm"}
+        data["limits"] = {"max_speed": f"{safe_max_speed(spec):g} rpm"}
         base[name] = (spec, data)
         _dump(name, data, f"Millbrook Valley water utility bid (invented): {model}.\n"
                           "Consistent demo machine: expect no error and no warning.")

@@ -514,13 +514,13 @@ FIXTURES = {
 
 
 def build(name: str, out_dir: Path, font: Path | None = None) -> dict:
-    """Write ``<name>.pdf`` and ``<name>.expected.json`` into ``out_dir``; return expected."""
+    """Write ``<name>.pdf`` and ``<name>.expected`` into ``out_dir``; return expected."""
     pdf = Sheet(font if font is not None else find_font())
     expected = FIXTURES[name](pdf)
     expected = {"pdf": f"{name}.pdf", "pages": pdf.pages_count, **expected}
     out_dir.mkdir(parents=True, exist_ok=True)
     pdf.output(str(out_dir / f"{name}.pdf"))
-    (out_dir / f"{name}.expected.json").write_text(
+    (out_dir / f"{name}.expected").write_text(
         json.dumps(expected, indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
     return expected
 

@@ -4,6 +4,7 @@ from sheetlint.relations import (  # noqa: F401
     basics,
     electrical,
     emf,
+    machine,
     mechanics,
     standards,
 )

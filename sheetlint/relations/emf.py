@@ -152,8 +152,20 @@ class TorqueConstant(Monomial):
         stated = _kt_temperature_factor(sheet)
         if stated is not None:
             return SQRT3 * stated[0]
-        reading = self._best_reading(sheet)
-        return SQRT3 * (reading[0] if reading else 1.0)
+        # unstated: centre between the cold and the hot reading, either accepted (allowance)
+        return SQRT3 * math.sqrt(self._hot_factor(sheet))
+
+    def allowance(self, sheet: Sheet) -> float:
+        if _kt_temperature_factor(sheet) is not None:
+            return 0.0
+        return abs(math.log(self._hot_factor(sheet))) / 2
+
+    def _hot_factor(self, sheet: Sheet) -> float:
+        ke, hot = sheet.get("emf.constant"), sheet.get("rated.magnet_temperature")
+        if ke is None or hot is None:
+            return 1.0
+        return remanence_factor(sheet.attr("machine.magnet"), ke.temperature or ROOM, hot.value,
+                                sheet.option("magnet-temperature", "alpha", None))
 
     def _best_reading(self, sheet: Sheet) -> tuple[float, str] | None:
         """For an unstated Kt temperature: the factor (cold or hot) that fits better."""

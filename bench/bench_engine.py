@@ -1,0 +1,71 @@
+"""Engine throughput: 10,000 generated records from raw input to findings, unit parsing included.
+
+Prints records/s of the whole engine path (pydantic validation with unit parsing, sheet
+building, derive, check, cause diagnosis) and, measured in the same run on the same records,
+records/s of pydantic validation alone, and their ratio (DESIGN.md budget: ≥ 1/3; issue 3:
+≥ 2,000 records/s on one core). Prints figures; asserts nothing.
+
+Run: python bench/bench_engine.py [N]
+"""
+
+from __future__ import annotations
+
+import copy
+import random
+import sys
+import time
+
+from sheetlint.engine.run import check_record
+from sheetlint.intake.records import RawRecord
+from sheetlint.model import MachineRecord
+from sheetlint.synth import MachineSpec, record
+
+
+def make_records(n: int, seed: int = 7) -> list[dict]:
+    rnd = random.Random(seed)
+    bases = []
+    for i in range(64):
+        spec = MachineSpec(
+            power_kw=rnd.choice([1.5, 5.5, 15, 45, 90, 160, 315]),
+            speed_rpm=rnd.choice([750, 1000, 1500, 3000]),
+            poles=rnd.choice([4, 6, 8, 10]),
+            topology=rnd.choice(["spm", "ipm"]),
+            voltage_ratio=rnd.uniform(0.85, 0.93))
+        bases.append(record(spec, f"BENCH-{i}"))
+    out = []
+    for i in range(n):
+        data = copy.deepcopy(bases[i % len(bases)])
+        data["id"] = f"BENCH-{i}"
+        if i % 7 == 0:  # a share of sheets with a slip, as in real batches
+            data["rated"]["torque"] = data["rated"]["torque"].replace(" ", "0 ", 1)
+        out.append(data)
+    return out
+
+
+def main() -> None:
+    n = int(sys.argv[1]) if len(sys.argv) > 1 else 10_000
+    records = make_records(n)
+    check_record(RawRecord(copy.deepcopy(records[0]), None, ""))  # warm caches and imports
+
+    raws = [RawRecord(copy.deepcopy(r), None, "") for r in records]
+    start = time.perf_counter()
+    for raw in raws:
+        MachineRecord.model_validate(raw.data)
+    validate_s = time.perf_counter() - start
+
+    raws = [RawRecord(copy.deepcopy(r), None, "") for r in records]
+    start = time.perf_counter()
+    findings = 0
+    for raw in raws:
+        findings += len(check_record(raw).findings)
+    engine_s = time.perf_counter() - start
+
+    print(f"records:                     {n}")
+    print(f"pydantic validation alone:   {n / validate_s:10.0f} records/s ({validate_s:.2f} s)")
+    print(f"engine, raw to findings:     {n / engine_s:10.0f} records/s ({engine_s:.2f} s)")
+    print(f"engine / validation ratio:   {validate_s / engine_s:10.3f}  (budget >= 0.333)")
+    print(f"findings:                    {findings}")
+
+
+if __name__ == "__main__":
+    main()

@@ -1,0 +1,74 @@
+"""Unit reading at the boundary, checked against published conversion factors."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+
+from sheetlint.units import UnitProblem, read_value, unit_factor, written_uncertainty
+
+
+def test_hp_is_745_6999_watt_per_nist_sp811_appendix_b():
+    # NIST SP 811 (2008), App. B: horsepower (550 ft·lbf/s) = 7.456 999 E+02 W
+    assert read_value("1 hp", None, "power", True).value == pytest.approx(745.6999, rel=1e-7)
+
+
+def test_lbf_ft_is_1_355818_newton_metre_per_nist_sp811_appendix_b():
+    # NIST SP 811 (2008), App. B: pound-force foot = 1.355 818 N·m
+    assert read_value("1 lbf·ft", None, "torque", False).value == pytest.approx(1.355818,
+                                                                                 rel=1e-6)
+
+
+def test_metric_horsepower_is_735_49875_watt_per_nist_sp811():
+    assert read_value("1 PS", None, "power", True).value == pytest.approx(735.49875, rel=1e-9)
+
+
+@pytest.mark.parametrize("spelling", ["rpm", "r/min", "min-1", "1/min", "U/min", "rev/min"])
+def test_every_trade_spelling_of_a_speed_is_revolutions_per_minute(spelling):
+    # SI Brochure, 9th ed.: 1 r/min = 2π/60 rad/s (the radian is the coherent unit of angle)
+    assert read_value(f"1500 {spelling}", None, "speed", True).value == pytest.approx(
+        1500 * 2 * math.pi / 60)
+
+
+def test_krpm_per_volt_constant_converts_with_two_pi_not_one():
+    # 1 V/krpm = 1 V per (1000·2π/60 rad/s) = 0.0095493 V·s/rad (SI: rad = 1 but kept explicit)
+    factor, _ = unit_factor("V/krpm", "emf_constant")
+    assert factor == pytest.approx(60 / (2 * math.pi * 1000))
+    assert unit_factor("V / 1000 rpm", "emf_constant")[0] == pytest.approx(factor)
+
+
+@pytest.mark.parametrize("text,kind", [("1500 Hz", "speed"), ("0.25 V/Hz", "emf_constant"),
+                                       ("1.2 V*s/rad", "flux_linkage"), ("15 kg", "power"),
+                                       ("3 blorbs", "length"), ("12 Wb", "torque_constant")])
+def test_ambiguous_or_wrong_units_are_refused_with_the_accepted_list(text, kind):
+    with pytest.raises(UnitProblem) as info:
+        read_value(text, None, kind, True)
+    assert "'" in str(info.value)
+
+
+def test_trade_spellings_of_small_units():
+    assert read_value("52 mΩ", None, "resistance", False).value == pytest.approx(0.052)
+    assert read_value("850 µH", None, "inductance", False).value == pytest.approx(850e-6)
+    assert read_value("850 uH", None, "inductance", False).value == pytest.approx(850e-6)
+    assert read_value("12.5 kg·cm²", None, "inertia", False).value == pytest.approx(12.5e-4)
+    assert read_value("400 Vrms", None, "voltage", True).value == 400.0
+    assert read_value("95.2 %", None, "ratio", False).value == pytest.approx(0.952)
+
+
+def test_megawatt_and_milliwatt_are_not_confused():
+    assert read_value("1 MW", None, "power", True).value == 1e6
+    assert read_value("1 mW", None, "power", True).value == 1e-3
+
+
+def test_declared_ratings_count_trailing_zeros_characteristics_may_not():
+    # DESIGN.md "Tolerance and severity": 1500 rpm declared is ±0.5; 1420 N·m may be ±5
+    assert written_uncertainty("1500", 1500.0, declared=True) == pytest.approx(0.5 / 1500)
+    assert written_uncertainty("1420", 1420.0, declared=False) == pytest.approx(5 / 1420)
+    assert written_uncertainty("1420.0", 1420.0, declared=False) == pytest.approx(0.05 / 1420)
+
+
+@pytest.mark.parametrize("text", ["nan kW", "inf kW", "1e999 kW", "fifteen kW", ""])
+def test_non_finite_or_non_numeric_values_are_unreadable(text):
+    with pytest.raises(UnitProblem):
+        read_value(text, None, "power", True)
