@@ -60,5 +60,5 @@ def test_impossible_values_are_value_range_errors_exit_1(tmp_path, capsys, field
 def test_misspelt_field_is_a_warning_naming_the_field_meant(tmp_path, capsys):
     data = json.loads(json.dumps(GOOD))
     data["rated"]["powr"] = "15 kW"
-    status, out = _check(tmp_path, capsys, json.dumps(data))
+    _status, out = _check(tmp_path, capsys, json.dumps(data))
     assert "rated.powr" in out and "rated.power" in out and "misspelling" in out
