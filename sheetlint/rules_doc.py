@@ -3,8 +3,11 @@
 from __future__ import annotations
 
 import inspect
+from typing import Any
 
 from sheetlint.relations.registry import all_relations
+
+STATUSES = ("stable", "preview")
 
 
 def _by_rule() -> dict[str, list[object]]:
@@ -14,17 +17,40 @@ def _by_rule() -> dict[str, list[object]]:
     return out
 
 
-def rules_table() -> str:
-    """Every rule: id, status, kind, equation(s), severity policy and source."""
+def rules_table(status: str | None = None) -> str:
+    """Every rule (or those of ``status``): id, status, kind, equation(s), severity policy, source.
+    """
     lines = []
     for rule, relations in sorted(_by_rule().items()):
         first = relations[0]
+        if status is not None and first.status != status:
+            continue
         lines.append(f"{rule}  [{first.status}, {first.kind}]")
         for r in relations:
             lines.append(f"    {r.equation}")
         lines.append(f"    severity: {first.severity_policy}")
         lines.append(f"    source:   {first.source}")
     return "\n".join(lines)
+
+
+def rules_payload(status: str | None = None) -> list[dict[str, Any]]:
+    """``sheetlint rules --format json``: one object per rule, sorted by id."""
+    out = []
+    for rule, relations in sorted(_by_rule().items()):
+        first = relations[0]
+        if status is not None and first.status != status:
+            continue
+        out.append({
+            "rule": rule,
+            "title": first.title,
+            "status": first.status,
+            "kind": first.kind,
+            "equations": [r.equation for r in relations],
+            "fields": sorted({f for r in relations for f in r.fields}),
+            "severity_policy": first.severity_policy,
+            "source": first.source,
+        })
+    return out
 
 
 def explain(rule: str) -> str | None:
