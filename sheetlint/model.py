@@ -202,6 +202,8 @@ def _count(value: Any) -> Any:
             value = float(value.strip())
         except ValueError:
             raise ValueError(f"expected a number, found '{value}'") from None
+    if isinstance(value, int) and not -1e308 < value < 1e308:
+        raise ValueError("the number is out of range")  # float(value) would overflow
     if isinstance(value, (int, float)):
         if not math.isfinite(value):
             raise ValueError(f"'{value}' is not a finite number")
