@@ -80,6 +80,8 @@ def load_records(path: str | os.PathLike[str], max_bytes: int = MAX_BYTES) -> Lo
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
         raise InputProblem(f"{name}: not UTF-8 text (byte {exc.start})") from None
+    if not text.strip():
+        raise InputProblem(f"{name}: file is empty")
     suffix = Path(name).suffix.lower()
     if suffix == ".json":
         data, locate = _load_json(name, text)
