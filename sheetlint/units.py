@@ -26,6 +26,13 @@ RPM = TWO_PI / 60.0  # rad/s per r/min
 HP = 745.69987158227022  # W, 550 ft·lbf/s (NIST SP 811, App. B)
 LBF_FT = 1.3558179483314004  # N·m (NIST SP 811, App. B)
 ZERO_CELSIUS = 273.15
+#: longest number text read (a longer one is refused, never parsed: its exponent alone could
+#: exceed Python's limit on integer digits)
+MAX_NUMBER_CHARS = 100
+#: a bare ratio from here to 100 is read as percent (η 95.2, cos φ 85); below it, a number
+#: above 1 (cos φ 1.2, η 1.05) is an impossible fraction for ``value-range``, not a percentage
+#: no motor sheet would print
+PERCENT_WITHOUT_SIGN = 10.0
 
 
 class UnitProblem(ValueError):
@@ -249,10 +256,13 @@ def read_value(raw_value: Any, unit: str | None, kind: str, declared: bool) -> R
         if number_text is None:
             raise UnitProblem(f"expected a number, found {type(raw_value).__name__}")
         unit_text = unit or ""
+    if len(number_text) > MAX_NUMBER_CHARS:
+        raise UnitProblem(f"the number '{number_text[:24]}...' has {len(number_text)} characters,"
+                          f" more than the {MAX_NUMBER_CHARS} a datasheet value can have")
     value = float(number_text)
     if not math.isfinite(value):
         raise UnitProblem(f"'{number_text}' is not a finite number")
-    if kind == "ratio" and not unit_text and value > 1.0 and value <= 100.0:
+    if kind == "ratio" and not unit_text and PERCENT_WITHOUT_SIGN <= value <= 100.0:
         unit_text = "%"  # efficiency written as 95.2 means percent
     if not unit_text and kind not in ("ratio", "count"):
         raise UnitProblem(
