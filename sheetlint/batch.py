@@ -2,21 +2,36 @@
 
 One bad file never stops the batch: an unreadable file becomes a :class:`FileResult` with an
 ``error`` message naming the file; an unreadable record inside a readable file gets its own
-error and the file's other records are still checked.
+error and the file's other records are still checked. A file that takes longer than the time
+limit, or is larger than the size limit, is reported as a file error and the batch goes on.
+
+Large batches run in worker processes (:mod:`sheetlint.parallel`); the results come back in
+the same order and with the same content as a serial run, except that ``RecordResult.sheet``
+(the engine's working object, which the HTML report reads) is kept only in serial runs.
 """
 
 from __future__ import annotations
 
+import math
 import os
+import signal
+import threading
 from collections.abc import Iterable, Iterator
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 from pathlib import Path
+from types import FrameType
 
 from sheetlint.engine.core import SEVERITY_RANK, Settings
 from sheetlint.engine.run import RecordResult, check_record
 from sheetlint.intake.records import MAX_BYTES, InputProblem, RawRecord, load_records
 
 DATA_SUFFIXES = (".json", ".yaml", ".yml")
+#: seconds allowed per file when the caller gives no limit
+DEFAULT_TIME_LIMIT = 30.0
+#: re-arm interval of the time-limit timer, in case the first interruption is swallowed by
+#: code that catches every exception
+_REARM_SECONDS = 1.0
 
 
 @dataclass(slots=True)
@@ -26,48 +41,131 @@ class FileResult:
     records: list[RecordResult] = field(default_factory=list)
 
 
+class TimeLimitExceeded(BaseException):
+    """Raised inside a file check when its time is up.
+
+    A ``BaseException`` so that code which turns ``Exception`` into a user message (unit
+    parsing, validators) cannot swallow it.
+    """
+
+
 def collect_files(paths: Iterable[str]) -> tuple[list[str], list[FileResult]]:
-    """Data files under ``paths`` (folders recursively, sorted), and results for missing paths."""
+    """Data files under ``paths`` (folders recursively, sorted), and results for bad paths.
+
+    Hidden files and folders inside a given folder are skipped. A path that does not exist, a
+    folder that cannot be listed and a path that is neither file nor folder each give a
+    :class:`FileResult` with an error; the other paths are still collected.
+    """
     files: list[str] = []
-    missing: list[FileResult] = []
+    problems: list[FileResult] = []
     for raw in paths:
         path = Path(raw)
-        if path.is_dir():
-            found = [str(p) for p in sorted(path.rglob("*"))
-                     if p.suffix.lower() in DATA_SUFFIXES and p.is_file()
-                     and not any(part.startswith(".") for part in p.relative_to(path).parts)]
-            files.extend(found)
-        elif path.is_file():
-            files.append(str(path))
-        else:
-            missing.append(FileResult(str(raw), f"{raw}: no such file or folder"))
-    return files, missing
+        try:
+            if path.is_dir():
+                files.extend(_walk(path, problems))
+            elif path.is_file():
+                files.append(str(path))
+            elif path.exists():
+                problems.append(FileResult(str(raw), f"{raw}: not a regular file or folder"))
+            else:
+                problems.append(FileResult(str(raw), f"{raw}: no such file or folder"))
+        except (OSError, ValueError) as exc:  # e.g. a name too long, an embedded NUL
+            problems.append(FileResult(str(raw), f"{raw}: cannot open ({_reason(exc)})"))
+    return files, problems
+
+
+def _walk(top: Path, problems: list[FileResult]) -> list[str]:
+    """Data files under ``top``, sorted as paths; unreadable folders are reported, not skipped."""
+
+    def unreadable(exc: OSError) -> None:
+        name = exc.filename if exc.filename is not None else str(top)
+        problems.append(FileResult(str(name), f"{name}: cannot read folder ({_reason(exc)})"))
+
+    found: list[Path] = []
+    for folder, subfolders, names in os.walk(top, onerror=unreadable):
+        subfolders[:] = [d for d in subfolders if not d.startswith(".")]
+        for name in names:
+            if name.startswith(".") or not name.lower().endswith(DATA_SUFFIXES):
+                continue
+            candidate = Path(folder, name)
+            if candidate.is_file():
+                found.append(candidate)
+    return [str(p) for p in sorted(found)]
+
+
+def _reason(exc: BaseException) -> str:
+    return getattr(exc, "strerror", None) or str(exc) or type(exc).__name__
 
 
 def raw_records(path: str, max_bytes: int | None = None) -> list[RawRecord]:
     """The raw records of one file (JSON, YAML or PDF). Raises InputProblem."""
+    limit = max_bytes or MAX_BYTES
     if path.lower().endswith(".pdf"):
+        try:
+            size = os.path.getsize(path)
+        except OSError as exc:
+            raise InputProblem(f"{path}: cannot read file ({_reason(exc)})") from None
+        if size > limit:
+            raise InputProblem(f"{path}: file is {size} bytes, over the limit of {limit}")
         from sheetlint.intake.pdf_records import pdf_raw_records
 
         return pdf_raw_records(path)
-    return load_records(path, max_bytes or MAX_BYTES).records
+    return load_records(path, limit).records
 
 
 def check_file(path: str, settings: Settings | None = None, *,
-               max_bytes: int | None = None) -> FileResult:
+               max_bytes: int | None = None, time_limit: float | None = None) -> FileResult:
+    """Read and check one file; never raises for bad input.
+
+    ``time_limit`` in seconds (None or 0: no limit); a file that takes longer becomes a file
+    error "time limit of N s exceeded". A failure inside sheetlint itself becomes an error
+    naming the file (and record) and asking for a report, so the batch goes on.
+    """
+    try:
+        with _deadline(time_limit):
+            return _check_file(path, settings, max_bytes)
+    except TimeLimitExceeded:
+        return FileResult(path, f"{path}: time limit of {time_limit:g} s exceeded")
+    except RecursionError:
+        return FileResult(path, f"{path}: document nested too deeply")
+    except MemoryError:
+        return FileResult(path, f"{path}: out of memory while reading the file")
+    except Exception as exc:  # a bug of ours must not stop the batch
+        return FileResult(path, f"{path}: {_internal(exc)}")
+
+
+def _check_file(path: str, settings: Settings | None, max_bytes: int | None) -> FileResult:
     try:
         records = raw_records(path, max_bytes)
     except InputProblem as exc:
         return FileResult(path, str(exc))
-    except RecursionError:
-        return FileResult(path, f"{path}: document nested too deeply")
     result = FileResult(path)
     for raw in records:
-        record = check_record(raw, settings)
+        try:
+            record = check_record(raw, settings)
+        except RecursionError:
+            record = RecordResult(_raw_label(raw), "record nested too deeply", index=raw.index)
+        except MemoryError:
+            raise
+        except Exception as exc:  # a bug of ours: this record fails, the others go on
+            record = RecordResult(_raw_label(raw), _internal(exc), index=raw.index)
         if record.error:
             record.error = f"{path}: {_record_label(raw, record)}: {record.error}"
         result.records.append(record)
     return result
+
+
+def _internal(exc: BaseException) -> str:
+    text = str(exc)
+    detail = f"{type(exc).__name__}: {text[:200]}" if text else type(exc).__name__
+    return f"internal error of sheetlint ({detail}); please report it with this input"
+
+
+def _raw_label(raw: RawRecord) -> str:
+    data = raw.data
+    if isinstance(data, dict) and data.get("id"):
+        return str(data["id"])
+    return f"records[{raw.index}]" if raw.index is not None else "(record)"
 
 
 def _record_label(raw: RawRecord, record: RecordResult) -> str:
@@ -77,18 +175,81 @@ def _record_label(raw: RawRecord, record: RecordResult) -> str:
         "records[") else "")
 
 
+# --- time limit ---------------------------------------------------------------------------------
+def alarm_available() -> bool:
+    """True where the time limit can be enforced in this thread (POSIX, main thread)."""
+    return (hasattr(signal, "setitimer") and hasattr(signal, "SIGALRM")
+            and threading.current_thread() is threading.main_thread())
+
+
+@contextmanager
+def _deadline(seconds: float | None) -> Iterator[None]:
+    """Raise :class:`TimeLimitExceeded` in the block after ``seconds`` (SIGALRM on POSIX).
+
+    Where SIGALRM cannot be used (Windows, a thread other than the main one) the block runs
+    without a limit; in a parallel run the parent still stops a worker that stops responding.
+    """
+    if not seconds or seconds <= 0 or not math.isfinite(seconds) or not alarm_available():
+        yield
+        return
+    state = {"armed": True}
+
+    def on_alarm(_signum: int, _frame: FrameType | None) -> None:
+        if state["armed"]:
+            raise TimeLimitExceeded
+
+    previous = signal.signal(signal.SIGALRM, on_alarm)
+    signal.setitimer(signal.ITIMER_REAL, seconds, _REARM_SECONDS)
+    try:
+        yield
+    finally:
+        state["armed"] = False
+        signal.setitimer(signal.ITIMER_REAL, 0.0)
+        signal.signal(signal.SIGALRM, previous)
+
+
+# --- batches ------------------------------------------------------------------------------------
+def effective_time_limit(time_limit: float | None) -> float | None:
+    """The limit to enforce: the default when None; none at all for 0 or a negative value."""
+    if time_limit is None:
+        return DEFAULT_TIME_LIMIT
+    if time_limit <= 0 or not math.isfinite(time_limit):
+        return None
+    return float(time_limit)
+
+
 def check_paths(paths: Iterable[str], settings: Settings | None = None, *,
                 jobs: int | None = None, time_limit: float | None = None,
                 max_bytes: int | None = None) -> Iterator[FileResult]:
     """Check every data file under ``paths``, in order.
 
-    ``jobs``: worker processes (None: decide by batch size); ``time_limit``: seconds per file;
-    ``max_bytes``: size limit per file.
+    ``jobs``: worker processes (None: workers only when the batch is large enough to repay
+    their start; 1: serial; 0 or less: one per CPU); ``time_limit``: seconds per file (None:
+    30 s; 0: no limit); ``max_bytes``: size limit per file (None: 20 MB). Paths that do not
+    exist come first, then the files in the order :func:`collect_files` gives.
     """
-    files, missing = collect_files(paths)
-    yield from missing
+    files, problems = collect_files(paths)
+    yield from problems
+    limit = effective_time_limit(time_limit)
+    from sheetlint.parallel import plan_workers
+
+    workers = plan_workers(len(files), jobs)
+    if workers > 1:
+        from sheetlint.parallel import check_in_workers
+
+        yield from check_in_workers(files, settings, workers=workers, time_limit=limit,
+                                    max_bytes=max_bytes)
+        return
+    if files:
+        _load_engine()  # before any time limit runs, so that no limit cuts an import in half
     for path in files:
-        yield check_file(path, settings, max_bytes=max_bytes)
+        yield check_file(path, settings, max_bytes=max_bytes, time_limit=limit)
+
+
+def _load_engine() -> None:
+    from sheetlint.relations.registry import all_relations
+
+    all_relations()
 
 
 def exit_status(results: list[FileResult], fail_on: str = "error") -> int:

@@ -1,0 +1,219 @@
+"""Checking a large batch in worker processes, with results in input order.
+
+The files are cut into chunks; a :class:`multiprocessing.pool.Pool` checks one chunk per task
+(``imap``, so the results come back in input order) and sends back the pickled
+:class:`~sheetlint.batch.FileResult` list. The engine's working ``sheet`` of each record is
+dropped in the worker (it holds a location closure that does not pickle and no report but the
+serial HTML one reads it); everything else is the same as in a serial run.
+
+Each worker enforces the per-file time limit itself (SIGALRM, see :func:`sheetlint.batch.
+check_file`). The parent watches as a backstop: when a chunk is not back within its time
+budget, or a worker process dies (killed for memory, a crash in a C extension), the pool is
+stopped and the files from that chunk on are checked again, that chunk one file at a time in
+a one-worker pool, so the file at fault is named and every other file is still checked.
+"""
+
+from __future__ import annotations
+
+import math
+import multiprocessing
+import os
+import pickle
+import signal
+import time
+from collections.abc import Iterator, Sequence
+from multiprocessing.pool import Pool
+from typing import Any
+
+from sheetlint.batch import FileResult, check_file
+from sheetlint.engine.core import Settings
+
+#: a batch below this many files runs serially when the caller leaves ``jobs`` open: starting
+#: workers costs about as much as checking this many files (measured with bench/bench_batch.py)
+PARALLEL_MIN_FILES = 200
+#: files per task: large enough to keep pickling and queueing cheap, small enough to balance
+MAX_CHUNK = 32
+#: extra seconds the parent allows beyond the per-file limits before it stops a worker
+GRACE_SECONDS = 10.0
+#: how often the parent looks for dead workers while it waits, seconds
+POLL_SECONDS = 0.25
+
+_WORKER_CONFIG: tuple[Settings | None, int | None, float | None] = (None, None, None)
+
+
+def cpu_count() -> int:
+    """CPUs this process may run on."""
+    try:
+        return max(1, len(os.sched_getaffinity(0)))
+    except (AttributeError, OSError):
+        return max(1, os.cpu_count() or 1)
+
+
+def plan_workers(file_count: int, jobs: int | None) -> int:
+    """Worker processes for a batch: 1 means serial in this process.
+
+    ``jobs`` None: one per CPU when the batch has at least :data:`PARALLEL_MIN_FILES` files,
+    else serial; ``jobs`` 0 or less: one per CPU; never more workers than files.
+    """
+    if file_count <= 1:
+        return 1
+    if jobs is None:
+        wanted = cpu_count() if file_count >= PARALLEL_MIN_FILES else 1
+    elif jobs <= 0:
+        wanted = cpu_count()
+    else:
+        wanted = jobs
+    return max(1, min(wanted, file_count))
+
+
+def chunk_size(file_count: int, workers: int) -> int:
+    """Files per task: about four tasks per worker, at most :data:`MAX_CHUNK`."""
+    return max(1, min(MAX_CHUNK, math.ceil(file_count / (4 * workers))))
+
+
+def check_in_workers(files: Sequence[str], settings: Settings | None, *, workers: int,
+                     time_limit: float | None, max_bytes: int | None) -> Iterator[FileResult]:
+    """Check ``files`` in ``workers`` processes; yield the results in the order of ``files``."""
+    size = chunk_size(len(files), workers)
+    chunks = [list(files[i:i + size]) for i in range(0, len(files), size)]
+    config = (settings, max_bytes, time_limit)
+    while chunks:
+        try:
+            pool = _start_pool(workers, config)
+        except (OSError, ImportError, ValueError):  # no process support here: check serially
+            for chunk in chunks:
+                for path in chunk:
+                    yield check_file(path, settings, max_bytes=max_bytes, time_limit=time_limit)
+            return
+        stopped_at: int | None = None
+        try:
+            for done, results in enumerate(_ordered_results(pool, chunks, time_limit)):
+                if results is None:
+                    stopped_at = done
+                    break
+                yield from results
+        finally:
+            pool.terminate()
+            pool.join()
+        if stopped_at is None:
+            return
+        yield from _isolate(chunks[stopped_at], config)
+        chunks = chunks[stopped_at + 1:]
+
+
+def _ordered_results(pool: Pool, chunks: list[list[str]],
+                     time_limit: float | None) -> Iterator[list[FileResult] | None]:
+    """Each chunk's results in order; None (and stop) when a chunk stalls or a worker dies."""
+    iterator = pool.imap(_check_chunk, chunks, chunksize=1)
+    pids = _worker_pids(pool)
+    for chunk in chunks:
+        budget = None if time_limit is None else len(chunk) * time_limit + GRACE_SECONDS
+        payload = _wait(iterator, pool, pids, budget)
+        if payload is None:
+            yield None
+            return
+        yield pickle.loads(payload)
+
+
+def _wait(iterator: Any, pool: Pool, pids: frozenset[int] | None,
+          budget: float | None) -> bytes | None:
+    """The next result, or None when ``budget`` seconds pass or a worker process dies."""
+    start = time.monotonic()
+    while True:
+        try:
+            return iterator.next(timeout=POLL_SECONDS)
+        except multiprocessing.TimeoutError:
+            pass
+        if budget is not None and time.monotonic() - start > budget:
+            return None
+        if pids is not None and _worker_pids(pool) != pids:
+            return None  # a worker died; its task is lost and will never come back
+
+
+def _isolate(chunk: list[str], config: tuple[Settings | None, int | None, float | None]
+             ) -> Iterator[FileResult]:
+    """Check the files of a chunk that stalled, one at a time, each in a fresh worker if need be.
+
+    A file that again gets no answer is the one at fault: it is reported, the others are checked.
+    """
+    settings, max_bytes, time_limit = config
+    pool: Pool | None = None
+    try:
+        for path in chunk:
+            if pool is None:
+                pool = _start_pool(1, config)
+            iterator = pool.imap(_check_chunk, [[path]], chunksize=1)
+            budget = None if time_limit is None else time_limit + GRACE_SECONDS
+            payload = _wait(iterator, pool, _worker_pids(pool), budget)
+            if payload is not None:
+                yield from pickle.loads(payload)
+                continue
+            pool.terminate()
+            pool.join()
+            pool = None
+            if time_limit is not None:
+                yield FileResult(path, f"{path}: time limit of {time_limit:g} s exceeded "
+                                       "(the worker checking it stopped responding or died)")
+            else:
+                yield FileResult(path, f"{path}: the worker process checking this file died "
+                                       "(out of memory?)")
+    except (OSError, ImportError, ValueError):
+        for path in chunk:  # pragma: no cover - only where processes cannot be started
+            yield check_file(path, settings, max_bytes=max_bytes, time_limit=time_limit)
+    finally:
+        if pool is not None:
+            pool.terminate()
+            pool.join()
+
+
+def _start_pool(workers: int, config: tuple[Settings | None, int | None, float | None]) -> Pool:
+    methods = multiprocessing.get_all_start_methods()
+    context = multiprocessing.get_context("fork" if "fork" in methods else None)
+    return context.Pool(workers, initializer=_init_worker, initargs=config)
+
+
+def _worker_pids(pool: Pool) -> frozenset[int] | None:
+    """The pids of the pool's workers (the pool replaces a dead worker with a new pid)."""
+    processes = getattr(pool, "_pool", None)
+    if processes is None:
+        return None
+    return frozenset(p.pid for p in processes if p.pid is not None)
+
+
+def _init_worker(settings: Settings | None, max_bytes: int | None,
+                 time_limit: float | None) -> None:
+    """Worker set-up: leave Ctrl-C to the parent, remember the settings, load the engine."""
+    global _WORKER_CONFIG
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    _WORKER_CONFIG = (settings, max_bytes, time_limit)
+    from sheetlint.relations.registry import all_relations
+
+    all_relations()
+
+
+def _check_chunk(paths: list[str]) -> bytes:
+    """Worker task: check ``paths`` and return the pickled results (without ``sheet``)."""
+    settings, max_bytes, time_limit = _WORKER_CONFIG
+    results = [_portable(check_file(p, settings, max_bytes=max_bytes, time_limit=time_limit))
+               for p in paths]
+    try:
+        return pickle.dumps(results, protocol=pickle.HIGHEST_PROTOCOL)
+    except Exception:  # something in a result does not pickle: report it per file
+        return pickle.dumps([_pickle_or_error(r) for r in results],
+                            protocol=pickle.HIGHEST_PROTOCOL)
+
+
+def _portable(result: FileResult) -> FileResult:
+    for record in result.records:
+        record.sheet = None
+    return result
+
+
+def _pickle_or_error(result: FileResult) -> FileResult:
+    try:
+        pickle.dumps(result, protocol=pickle.HIGHEST_PROTOCOL)
+    except Exception as exc:
+        return FileResult(result.path, f"{result.path}: internal error of sheetlint (result "
+                                       f"does not pickle: {type(exc).__name__}); please report "
+                                       "it with this input")
+    return result
