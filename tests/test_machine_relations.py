@@ -281,6 +281,9 @@ def test_short_circuit_current_above_peak_current_is_a_warning() -> None:
     assert "demagnetisation" in findings[0].message and "141.4 A" in findings[0].message
     values["limits.peak_current"] = known(150.0)
     assert run(ShortCircuitCurrent, Sheet("sc", values, {})) == []
+    del values["limits.peak_current"]
+    values["rated.current"] = known(50.0)  # no peak current: only a note (see docstring)
+    assert [f.severity for f in run(ShortCircuitCurrent, Sheet("sc", values, {}))] == ["info"]
 
 
 # --- robustness ----------------------------------------------------------------------------

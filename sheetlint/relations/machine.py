@@ -920,10 +920,13 @@ class ShortCircuitCurrent(Relation):
     .. math:: I_{sc} = \\frac{\\psi}{\\sqrt2\\,L_d} \\ \\text{(rms, high speed, R neglected)}
 
     A three-phase short circuit of a turning PM machine (a converter fault, or a protective
-    short-circuit of the terminals) drives this current. Above the peak current (or the rated
-    current when no peak is given) it is a ``warning``: the converter's fault path must carry
-    it, and the stator field opposes the magnets — check the magnets' demagnetisation limit
-    with the manufacturer. Uses ψ at the rated magnet temperature; cold magnets give more.
+    short-circuit of the terminals) drives this current. Above the peak current it is a
+    ``warning``: the converter's fault path must carry it, and the stator field opposes the
+    magnets — check the magnets' demagnetisation limit with the manufacturer. With no peak
+    current given it is compared with the rated current as an ``info`` only: ψ/L_d above
+    rated current is normal (I_sc/I_rated = 1/x, x = L_d·I/ψ < 1 in most machines), so a
+    warning there would fire on consistent sheets. Uses ψ at the rated magnet temperature;
+    cold magnets give more.
 
     Example that fails: ψ = 0.1 Wb, L_d = 0.5 mH: 141 A rms against a 50 A peak current.
 
@@ -962,6 +965,14 @@ class ShortCircuitCurrent(Relation):
                 f"rated temperature) against the {name.split('.')[-1].replace('_', ' ')} "
                 f"{reference.value:.4g} A. {_join(inputs.notes)}{CAUTION}")
         if i_sc <= reference.value * (1.0 + margin):
+            return
+        if name == "rated.current":
+            # ψ/L_d above rated current is the normal case (it equals I_rated/x with the
+            # per-unit reactance x < 1): a note asking for the peak current, not a warning
+            yield sheet.finding(
+                self, "info", f"{text} State limits.peak_current to have the converter's "
+                "fault current and the magnets' demagnetisation limit checked against it.",
+                fields)
             return
         yield sheet.finding(
             self, "warning",
