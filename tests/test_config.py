@@ -1,0 +1,269 @@
+"""Configuration files, their discovery and the merge with the command line (config.py),
+and the progress line of long batches (progress.py)."""
+
+from __future__ import annotations
+
+import io
+import json
+from pathlib import Path
+
+import pytest
+
+from sheetlint.cli import main
+from sheetlint.config import ConfigError, find_config, read_config, resolve
+from sheetlint.progress import with_progress
+
+KNOWN = ("power-torque-speed", "voltage-margin", "magnet-temperature", "emf-constant")
+
+#: spm, U = 400 V, Ke = 180 V/krpm: E = 270 V at 1500 rpm, a margin of +48 % (far above the
+#: 6-7 % band of common practice) -> voltage-margin warning with the default options
+WIDE_MARGIN = """\
+id: "Invented PMX-15W"
+machine: {topology: spm, poles: 8}
+rated:
+  power: "15 kW"
+  torque: "95.5 N*m"
+  speed: "1500 rpm"
+  frequency: "100 Hz"
+  voltage: "400 V"
+  current: "26.5 A"
+  power_factor: 0.9
+  efficiency: "94 %"
+emf: {constant: "180 V/krpm"}
+"""
+#: torque 15 % above P/omega: power-torque-speed error (P = T*omega, SI definition)
+PLANTED = WIDE_MARGIN.replace('"95.5 N*m"', '"110 N*m"')
+
+
+def _known() -> tuple[str, ...]:
+    return KNOWN
+
+
+# --- discovery ------------------------------------------------------------------------------
+def test_discovery_walks_up_and_skips_pyproject_without_table(tmp_path: Path):
+    (tmp_path / "sheetlint.toml").write_text('fail-on = "warning"\n', encoding="utf-8")
+    project = tmp_path / "project"
+    (project / "motors" / "deep").mkdir(parents=True)
+    (project / "pyproject.toml").write_text('[project]\nname = "x"\n', encoding="utf-8")
+    assert find_config(project / "motors" / "deep") == (tmp_path / "sheetlint.toml").resolve()
+
+
+def test_discovery_takes_pyproject_with_tool_sheetlint(tmp_path: Path):
+    (tmp_path / "sheetlint.toml").write_text("", encoding="utf-8")
+    project = tmp_path / "project"
+    (project / "motors").mkdir(parents=True)
+    (project / "pyproject.toml").write_text('[tool.sheetlint]\nfail-on = "info"\n',
+                                            encoding="utf-8")
+    assert find_config(project / "motors") == (project / "pyproject.toml").resolve()
+    assert read_config(find_config(project / "motors")).fail_on == "info"
+
+
+def test_sheetlint_toml_wins_over_pyproject_in_the_same_folder(tmp_path: Path):
+    (tmp_path / "pyproject.toml").write_text('[tool.sheetlint]\nfail-on = "info"\n',
+                                             encoding="utf-8")
+    (tmp_path / "sheetlint.toml").write_text('fail-on = "warning"\n', encoding="utf-8")
+    assert find_config(tmp_path) == (tmp_path / "sheetlint.toml").resolve()
+
+
+# --- reading --------------------------------------------------------------------------------
+def test_pyproject_table_gives_select_ignore_fail_on_and_rule_options(tmp_path: Path):
+    path = tmp_path / "pyproject.toml"
+    path.write_text("""
+[tool.sheetlint]
+select = ["power-torque-speed", "voltage-margin"]
+ignore = ["resistance-drop"]
+fail-on = "warning"
+
+[tool.sheetlint.rules.voltage-margin]
+band = [0.05, 0.08]
+
+[tool.sheetlint.rules.emf-constant]
+allowance = 0.1
+
+[tool.sheetlint.rules.magnet-temperature]
+alpha = -0.0012
+""", encoding="utf-8")
+    config = read_config(path)
+    assert config.select == {"power-torque-speed", "voltage-margin"}
+    assert config.ignore == {"resistance-drop"}
+    assert config.fail_on == "warning"
+    assert config.options == {"voltage-margin": {"band": (0.05, 0.08)},
+                              "emf-constant": {"allowance": 0.1},
+                              "magnet-temperature": {"alpha": -0.0012}}
+    settings = resolve(config=str(path), known_rules=_known).settings
+    assert settings.option("voltage-margin", "band", None) == (0.05, 0.08)
+    assert settings.option("magnet-temperature", "alpha", None) == -0.0012
+    assert settings.option("emf-constant", "missing", "default") == "default"
+
+
+@pytest.mark.parametrize(("text", "needle"), [
+    ("select = [\n", "not valid TOML"),
+    ('fail_on = "warning"\n', "did you mean 'fail-on'"),
+    ('fail-on = "fatal"\n', "must be one of error, warning, info"),
+    ("select = [1, 2]\n", "list of rule ids"),
+    ('[tool.sheetlint]\nfail-on = "info"\n', "without a [tool.sheetlint] header"),
+    ("rules = 3\n", "table of rule tables"),
+    ("[rules.voltage-margin]\nband = { low = 1 }\n", "must be a number"),
+    ("[rules.voltage-margin]\nband = nan\n", "finite"),
+])
+def test_bad_configuration_is_a_config_error_naming_the_file(tmp_path: Path, text: str,
+                                                             needle: str):
+    path = tmp_path / "sheetlint.toml"
+    path.write_text(text, encoding="utf-8")
+    with pytest.raises(ConfigError) as caught:
+        read_config(path)
+    assert str(path) in str(caught.value)
+    assert needle in str(caught.value)
+
+
+def test_pyproject_named_by_config_must_have_the_table(tmp_path: Path):
+    path = tmp_path / "pyproject.toml"
+    path.write_text('[project]\nname = "x"\n', encoding="utf-8")
+    with pytest.raises(ConfigError, match=r"no \[tool.sheetlint\] table"):
+        read_config(path)
+
+
+# --- merging --------------------------------------------------------------------------------
+def test_command_line_wins_over_file_and_file_over_defaults(tmp_path: Path):
+    (tmp_path / "sheetlint.toml").write_text(
+        'select = ["voltage-margin"]\nignore = ["emf-constant"]\nfail-on = "warning"\n',
+        encoding="utf-8")
+    from_file = resolve(start=tmp_path, known_rules=_known)
+    assert from_file.settings.select == {"voltage-margin"}
+    assert from_file.settings.ignore == {"emf-constant"}
+    assert from_file.fail_on == "warning"
+    assert from_file.config_path == str((tmp_path / "sheetlint.toml").resolve())
+    cli = resolve(start=tmp_path, select=["power-torque-speed"], ignore=[], fail_on="error",
+                  known_rules=_known)
+    assert cli.settings.select == {"power-torque-speed"}
+    assert cli.settings.ignore == frozenset()
+    assert cli.fail_on == "error"
+    defaults = resolve(start=tmp_path, use_config=False, known_rules=_known)
+    assert defaults.settings.select is None and defaults.fail_on == "error"
+    assert defaults.config_path is None
+
+
+def test_unknown_rule_ids_are_warnings_with_a_suggestion(tmp_path: Path):
+    (tmp_path / "sheetlint.toml").write_text(
+        'ignore = ["voltage-margn"]\n[rules.no-such-rule]\nx = 1\n', encoding="utf-8")
+    resolved = resolve(start=tmp_path, select=["power-torque-speed", "bogus"],
+                       known_rules=_known)
+    text = "\n".join(resolved.warnings)
+    assert "unknown rule 'voltage-margn' (did you mean 'voltage-margin'?)" in text
+    assert "rules.no-such-rule: unknown rule 'no-such-rule'" in text
+    assert "--select: unknown rule 'bogus'" in text
+    assert len(resolved.warnings) == 3
+
+
+# --- through the command line -----------------------------------------------------------------
+def _check(capsys: pytest.CaptureFixture[str], *argv: str) -> tuple[int, str, str]:
+    status = main(["check", *argv])
+    out = capsys.readouterr()
+    return status, out.out, out.err
+
+
+def test_config_ignore_and_cli_override_change_the_exit_status(
+        tmp_path: Path, monkeypatch: pytest.MonkeyPatch, capsys: pytest.CaptureFixture[str]):
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "m.yaml").write_text(PLANTED, encoding="utf-8")
+    assert _check(capsys, "m.yaml", "--no-config")[0] == 1
+    (tmp_path / "pyproject.toml").write_text(
+        '[tool.sheetlint]\nignore = ["power-torque-speed"]\n', encoding="utf-8")
+    status, out, _ = _check(capsys, "m.yaml")
+    assert status == 0 and "power-torque-speed" not in out
+    # the command line replaces the file's ignore list
+    status, out, _ = _check(capsys, "m.yaml", "--ignore", "resistance-drop")
+    assert status == 1 and "power-torque-speed" in out
+
+
+def test_fail_on_from_config_and_cli(tmp_path: Path, monkeypatch: pytest.MonkeyPatch,
+                                     capsys: pytest.CaptureFixture[str]):
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "m.yaml").write_text(WIDE_MARGIN, encoding="utf-8")
+    status, out, _ = _check(capsys, "m.yaml", "--format", "json", "--no-config")
+    findings = json.loads(out)["files"][0]["records"][0]["findings"]
+    assert not [f for f in findings if f["severity"] == "error"]
+    assert any(f["rule"] == "voltage-margin" and f["severity"] == "warning" for f in findings)
+    assert status == 0
+    (tmp_path / "sheetlint.toml").write_text('fail-on = "warning"\n', encoding="utf-8")
+    assert _check(capsys, "m.yaml")[0] == 1
+    assert _check(capsys, "m.yaml", "--fail-on", "error")[0] == 0
+
+
+def test_rule_options_reach_the_relation(tmp_path: Path, monkeypatch: pytest.MonkeyPatch,
+                                         capsys: pytest.CaptureFixture[str]):
+    # voltage-margin reads band and warn through sheet.option; widening warn to 90 % turns
+    # the +48 % warning into an info that quotes the configured band
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "m.yaml").write_text(WIDE_MARGIN, encoding="utf-8")
+    (tmp_path / "sheetlint.toml").write_text(
+        "[rules.voltage-margin]\nband = [0.05, 0.08]\nwarn = [0.0, 0.9]\n", encoding="utf-8")
+    status, out, err = _check(capsys, "m.yaml", "--format", "json")
+    assert err == ""
+    assert status == 0
+    margin = [f for f in json.loads(out)["files"][0]["records"][0]["findings"]
+              if f["rule"] == "voltage-margin"]
+    assert len(margin) == 1
+    assert margin[0]["severity"] == "info"
+    assert "5%–8%" in margin[0]["message"]
+
+
+def test_bad_config_is_exit_2_with_a_message_not_a_traceback(
+        tmp_path: Path, monkeypatch: pytest.MonkeyPatch, capsys: pytest.CaptureFixture[str]):
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "m.yaml").write_text(WIDE_MARGIN, encoding="utf-8")
+    (tmp_path / "sheetlint.toml").write_text("select = [\n", encoding="utf-8")
+    status, out, err = _check(capsys, "m.yaml")
+    assert status == 2
+    assert out == ""
+    assert err.startswith("sheetlint: ") and "sheetlint.toml" in err
+    assert "Traceback" not in err
+    status, _, err = _check(capsys, "m.yaml", "--config", "nowhere.toml")
+    assert status == 2 and "cannot read configuration file" in err
+    # --no-config ignores the broken file
+    assert _check(capsys, "m.yaml", "--no-config")[0] == 0
+
+
+def test_unknown_rule_in_config_warns_on_stderr_and_still_checks(
+        tmp_path: Path, monkeypatch: pytest.MonkeyPatch, capsys: pytest.CaptureFixture[str]):
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "m.yaml").write_text(PLANTED, encoding="utf-8")
+    (tmp_path / "sheetlint.toml").write_text('ignore = ["power-torque-sped"]\n',
+                                             encoding="utf-8")
+    status, _out, err = _check(capsys, "m.yaml")
+    assert status == 1
+    assert "warning:" in err and "did you mean 'power-torque-speed'" in err
+
+
+# --- progress ---------------------------------------------------------------------------------
+class _Terminal(io.StringIO):
+    def isatty(self) -> bool:
+        return True
+
+
+def test_progress_is_silent_when_stderr_is_not_a_terminal():
+    stream = io.StringIO()
+    items = list(with_progress(range(50), total=50, stream=stream, delay=0.0, interval=0.0))
+    assert items == list(range(50))
+    assert stream.getvalue() == ""
+
+
+def test_progress_draws_and_wipes_its_line_on_a_terminal(monkeypatch: pytest.MonkeyPatch):
+    monkeypatch.setenv("TERM", "xterm")
+    ticks = iter(float(i) for i in range(1000))
+    stream = _Terminal()
+    items = list(with_progress(["a.yaml", "b.yaml", "c.yaml"], total=lambda: 3,
+                               label=str, stream=stream, delay=1.5, interval=0.0,
+                               clock=lambda: next(ticks)))
+    assert items == ["a.yaml", "b.yaml", "c.yaml"]
+    text = stream.getvalue()
+    assert "sheetlint: 1/3 files" not in text  # before the delay
+    assert "sheetlint: 3/3 files  c.yaml" in text
+    assert text.endswith("\r")  # the line is wiped before the report is written
+
+
+def test_short_batch_on_a_terminal_prints_nothing(monkeypatch: pytest.MonkeyPatch):
+    monkeypatch.setenv("TERM", "xterm")
+    stream = _Terminal()
+    list(with_progress(range(3), total=3, stream=stream, clock=lambda: 0.0))
+    assert stream.getvalue() == ""

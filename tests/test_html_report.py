@@ -1,0 +1,194 @@
+"""``sheetlint report``: one self-contained HTML file with findings, provenance and plots."""
+
+from __future__ import annotations
+
+import math
+import re
+from pathlib import Path
+
+import pytest
+
+from sheetlint.batch import check_file
+from sheetlint.cli import main
+from sheetlint.report import html as html_report
+
+RPM = 2.0 * math.pi / 60.0
+
+#: spm with a DC link and a maximum speed (both plots have what they need)
+SPM = """\
+id: "Invented PMX-15"
+machine: {topology: spm, poles: 8}
+rated:
+  power: "15 kW"
+  torque: "95.5 N*m"
+  speed: "1500 rpm"
+  frequency: "100 Hz"
+  voltage: "400 V"
+  current: "26.5 A"
+  power_factor: 0.9
+  efficiency: "94 %"
+emf: {constant: "240 V/krpm"}
+limits: {max_speed: "3000 rpm", peak_torque: "190 N*m"}
+supply: {dc_link_voltage: "565 V"}
+points:
+  - {speed: "2500 rpm", torque: "50 N*m"}
+"""
+#: ipm with dq parameters: the envelope comes from the dq model
+IPM = """\
+id: "Invented IPX-30"
+machine: {topology: ipm, poles: 8}
+rated:
+  power: "30 kW"
+  torque: "143 N*m"
+  speed: "2000 rpm"
+  voltage: "380 V"
+  current: "55 A"
+emf: {constant: "150 V/krpm"}
+circuit: {resistance: "0.08 ohm", ld: "2.0 mH", lq: "4.5 mH"}
+limits: {max_speed: "5000 rpm", peak_current: "110 A"}
+supply: {dc_link_voltage: "650 V"}
+"""
+HOSTILE_ID = '<script>alert("x")</script> & Co'
+
+
+@pytest.fixture(autouse=True)
+def _in_tmp(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    monkeypatch.chdir(tmp_path)
+
+
+def _report(tmp_path: Path, capsys: pytest.CaptureFixture[str], *names: str) -> tuple[int, str]:
+    status = main(["report", "--no-config", *names, "-o", "report.html"])
+    capsys.readouterr()
+    return status, (tmp_path / "report.html").read_text(encoding="utf-8")
+
+
+def _sheet(tmp_path: Path, text: str):
+    (tmp_path / "one.yaml").write_text(text, encoding="utf-8")
+    record = check_file("one.yaml").records[0]
+    assert record.error is None and record.sheet is not None
+    return record.sheet
+
+
+def test_report_is_self_contained_without_network_or_script(tmp_path: Path,
+                                                            capsys: pytest.CaptureFixture[str]):
+    (tmp_path / "spm.yaml").write_text(SPM, encoding="utf-8")
+    (tmp_path / "ipm.yaml").write_text(IPM, encoding="utf-8")
+    _, page = _report(tmp_path, capsys, "spm.yaml", "ipm.yaml")
+    assert page.startswith("<!DOCTYPE html>")
+    assert page.rstrip().endswith("</html>")
+    lowered = page.lower()
+    for forbidden in ("<script", "<link", "<img", "<iframe", "@import", "url(", " src="):
+        assert forbidden not in lowered, forbidden
+    # the only URL is the SVG namespace name, which is never fetched
+    assert set(re.findall(r"https?://[^\s\"'<>]+", page)) <= {"http://www.w3.org/2000/svg"}
+    assert page.count("<svg") == 4  # two plots per machine
+    assert "<style>" in page
+
+
+def test_cautions_of_the_design_appear_at_top_and_foot(tmp_path: Path,
+                                                       capsys: pytest.CaptureFixture[str]):
+    (tmp_path / "spm.yaml").write_text(SPM, encoding="utf-8")
+    _, page = _report(tmp_path, capsys, "spm.yaml")
+    for text in html_report.CAUTIONS:
+        assert page.count(text) == 2
+    assert "confirmed with the manufacturer" in page
+    assert "local codes and licensed practice" in page
+    assert "even with the converter off" in page
+
+
+def test_strings_from_the_data_are_escaped(tmp_path: Path, capsys: pytest.CaptureFixture[str]):
+    (tmp_path / "x.yaml").write_text(SPM.replace('"Invented PMX-15"', repr(HOSTILE_ID)),
+                                     encoding="utf-8")
+    _, page = _report(tmp_path, capsys, "x.yaml")
+    assert HOSTILE_ID not in page
+    assert "&lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; &amp; Co" in page
+    assert "<script" not in page.lower()
+
+
+def test_findings_derived_values_and_provenance_are_listed(tmp_path: Path,
+                                                           capsys: pytest.CaptureFixture[str]):
+    planted = SPM.replace('"95.5 N*m"', '"110 N*m"')  # P = T*omega fails by 15 %
+    (tmp_path / "p.yaml").write_text(planted, encoding="utf-8")
+    status, page = _report(tmp_path, capsys, "p.yaml")
+    assert status == 1  # same exit contract as check
+    row = next(r for r in page.split("<tr") if "power-torque-speed" in r)
+    assert "sev-error" in row and "p.yaml:5" in row
+    assert "110 N*m" in row
+    # derived pole pairs from the pole count, with the rule and the input named
+    derived = next(r for r in page.split("<tr") if "<code>machine.pole_pairs</code>" in r)
+    assert "pole-count" in derived and "machine.poles" in derived
+    assert "Values on the sheet" in page and "rated.power" in page
+
+
+def test_unreadable_file_gets_its_own_section_and_exit_2(tmp_path: Path,
+                                                         capsys: pytest.CaptureFixture[str]):
+    (tmp_path / "spm.yaml").write_text(SPM, encoding="utf-8")
+    (tmp_path / "bad.yaml").write_text("id: [oops\n", encoding="utf-8")
+    status, page = _report(tmp_path, capsys, "spm.yaml", "bad.yaml")
+    assert status == 2
+    assert 'class="file-error"' in page and "bad.yaml" in page
+    assert page.count('class="record"') == 1
+
+
+def test_back_emf_plot_uses_ke_times_omega_and_dc_link_over_sqrt2(tmp_path: Path):
+    # E_LL,rms = Ke*omega (definition of Ke, DESIGN.md); the largest line rms fundamental of
+    # space-vector modulation is U_dc/sqrt(2) (power-electronics texts; common practice)
+    plot = html_report.emf_plot(_sheet(tmp_path, SPM))
+    assert plot is not None
+    given = next(s for s in plot.series if "as given" in s.label)
+    ke_si = 240.0 / (1000.0 * RPM)  # 240 V/krpm in V*s/rad
+    assert given.ys[-1] / (given.xs[-1] * RPM) == pytest.approx(ke_si, rel=1e-9)
+    assert "240 V/krpm" in given.label
+    horizontal = {r.label: r.value for r in plot.references if r.axis == "y"}
+    assert horizontal["rated voltage 400 V"] == pytest.approx(400.0)
+    dc = next(v for k, v in horizontal.items() if k.startswith("DC-link limit"))
+    assert dc == pytest.approx(565.0 / math.sqrt(2.0), rel=1e-9)
+    vertical = [r.value for r in plot.references if r.axis == "x"]
+    assert vertical == [pytest.approx(3000.0)]
+    assert [(m.x, m.y) for m in plot.markers] == [(pytest.approx(1500.0), pytest.approx(400.0))]
+
+
+def test_simple_envelope_is_constant_power_above_rated_speed(tmp_path: Path):
+    # P = T*omega (SI definition): above rated speed T*n stays T_rated*n_rated
+    plot = html_report.envelope_plot(_sheet(tmp_path, SPM))
+    assert plot is not None
+    rated = next(s for s in plot.series if "rated torque" in s.label)
+    for n, t in zip(rated.xs, rated.ys, strict=True):
+        if n <= 1500.0:
+            assert t == pytest.approx(95.5)
+        else:
+            assert t * n == pytest.approx(95.5 * 1500.0, rel=1e-9)
+    assert any("peak torque" in s.label for s in plot.series)
+    labels = [m.label for m in plot.markers]
+    assert labels[0].startswith("rated point 1500 rpm")
+    assert any(label.startswith("points[0]: 2500 rpm") for label in labels)
+    # the speed where the back-EMF reaches U_dc/sqrt(2): n0 = U/Ke
+    n0 = (565.0 / math.sqrt(2.0)) / (240.0 / 1000.0)
+    voltage = next(r for r in plot.references if "voltage limit" in r.label)
+    assert voltage.axis == "x" and voltage.value == pytest.approx(n0, rel=1e-9)
+
+
+def test_ipm_envelope_comes_from_the_dq_model(tmp_path: Path):
+    plot = html_report.envelope_plot(_sheet(tmp_path, IPM))
+    assert plot is not None
+    labels = [s.label for s in plot.series]
+    assert any("dq-model envelope at the rated current 55 A" in x for x in labels)
+    assert any("dq-model envelope at the peak current 110 A" in x for x in labels)
+    rated, peak = plot.series
+    # more current never gives less torque at the same speed (the envelope is a maximum)
+    assert all(p >= r - 1e-9 for r, p in zip(rated.ys, peak.ys, strict=False))
+    assert max(rated.xs) == pytest.approx(5000.0, rel=1e-6)
+
+
+def test_sheet_without_plot_values_says_why(tmp_path: Path, capsys: pytest.CaptureFixture[str]):
+    (tmp_path / "bare.yaml").write_text('id: "Invented Bare"\nrated: {power: "5 kW"}\n',
+                                        encoding="utf-8")
+    _, page = _report(tmp_path, capsys, "bare.yaml")
+    assert "<svg" not in page
+    assert "torque-speed plot not drawn" in page and "back-EMF plot not drawn" in page
+
+
+@pytest.mark.parametrize(("span", "step"), [(1000.0, 200.0), (7.3, 2.0), (0.042, 0.01),
+                                            (150.0, 50.0)])
+def test_axis_ticks_are_1_2_5_steps(span: float, step: float):
+    assert html_report.nice_step(span) == pytest.approx(step)
