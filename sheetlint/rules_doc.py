@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import inspect
+from collections.abc import Iterable
 from typing import Any
 
 from sheetlint.relations.registry import all_relations
@@ -17,6 +18,11 @@ def _by_rule() -> dict[str, list[object]]:
     return out
 
 
+def _distinct(texts: Iterable[str]) -> list[str]:
+    """Non-empty texts in first-seen order, each once (relations of one rule share most)."""
+    return list(dict.fromkeys(t for t in texts if t))
+
+
 def rules_table(status: str | None = None) -> str:
     """Every rule (or those of ``status``): id, status, kind, equation(s), severity policy, source.
     """
@@ -28,8 +34,10 @@ def rules_table(status: str | None = None) -> str:
         lines.append(f"{rule}  [{first.status}, {first.kind}]")
         for r in relations:
             lines.append(f"    {r.equation}")
-        lines.append(f"    severity: {first.severity_policy}")
-        lines.append(f"    source:   {first.source}")
+        for policy in _distinct(r.severity_policy for r in relations):
+            lines.append(f"    severity: {policy}")
+        for source in _distinct(r.source for r in relations):
+            lines.append(f"    source:   {source}")
     return "\n".join(lines)
 
 
@@ -49,6 +57,7 @@ def rules_payload(status: str | None = None) -> list[dict[str, Any]]:
             "fields": sorted({f for r in relations for f in r.fields}),
             "severity_policy": first.severity_policy,
             "source": first.source,
+            "sources": _distinct(r.source for r in relations),
         })
     return out
 

@@ -74,7 +74,7 @@ def rule_descriptors() -> list[dict[str, Any]]:
                 "status": first.status,
                 "equation": equations,
                 "severityPolicy": first.severity_policy,
-                "source": first.source,
+                "source": "; ".join(dict.fromkeys(r.source for r in relations if r.source)),
                 "tags": ["pm-machine", first.kind, first.status],
             },
         })

@@ -1,0 +1,118 @@
+"""The pre-commit hook of ``.pre-commit-hooks.yaml``, run by pre-commit on a temporary git
+repository. No network: the hook definition from our manifest is used as a ``repo: local``
+hook with ``language: system`` pointing at the installed ``sheetlint``."""
+
+from __future__ import annotations
+
+import os
+import shutil
+import subprocess
+import sys
+from pathlib import Path
+from typing import Any
+
+import pytest
+import yaml
+
+ROOT = Path(__file__).resolve().parent.parent
+MANIFEST = ROOT / ".pre-commit-hooks.yaml"
+BIN = Path(sys.executable).parent
+
+GOOD = """\
+id: "Invented PMX-15"
+machine: {topology: spm, poles: 8}
+rated: {power: "15 kW", torque: "95.5 N*m", speed: "1500 rpm", frequency: "100 Hz",
+        voltage: "400 V", current: "26.5 A", power_factor: 0.9, efficiency: "94 %"}
+emf: {constant: "240 V/krpm"}
+"""
+#: torque 15 % above P/omega: power-torque-speed error (P = T*omega, SI definition)
+BAD = GOOD.replace('"95.5 N*m"', '"110 N*m"').replace("PMX-15", "PMX-15T")
+
+
+def _tool(name: str) -> str | None:
+    local = BIN / name
+    return str(local) if local.exists() else shutil.which(name)
+
+
+GIT = shutil.which("git")
+PRE_COMMIT = _tool("pre-commit")
+SHEETLINT = _tool("sheetlint")
+pytestmark = [
+    pytest.mark.skipif(GIT is None, reason="git is not installed"),
+    pytest.mark.skipif(PRE_COMMIT is None, reason="pre-commit is not installed"),
+    pytest.mark.skipif(SHEETLINT is None, reason="the sheetlint command is not installed"),
+]
+
+
+def _hook(hook_id: str) -> dict[str, Any]:
+    hooks = yaml.safe_load(MANIFEST.read_text(encoding="utf-8"))
+    return next(h for h in hooks if h["id"] == hook_id)
+
+
+def _env(tmp_path: Path) -> dict[str, str]:
+    env = dict(os.environ)
+    env.update({
+        "PRE_COMMIT_HOME": str(tmp_path / "pre-commit-cache"),
+        "PATH": f"{BIN}{os.pathsep}{env.get('PATH', '')}",
+        "GIT_AUTHOR_NAME": "Test", "GIT_AUTHOR_EMAIL": "test@example.invalid",
+        "GIT_COMMITTER_NAME": "Test", "GIT_COMMITTER_EMAIL": "test@example.invalid",
+        "GIT_CONFIG_NOSYSTEM": "1", "HOME": str(tmp_path),
+    })
+    env.pop("PRE_COMMIT", None)
+    return env
+
+
+def _run(args: list[str], cwd: Path, env: dict[str, str]) -> subprocess.CompletedProcess[str]:
+    return subprocess.run(args, cwd=cwd, env=env, capture_output=True, text=True, timeout=120,
+                          check=False)
+
+
+@pytest.fixture
+def repo(tmp_path: Path) -> tuple[Path, dict[str, str]]:
+    """A git repository whose .pre-commit-config.yaml uses our manifest's hook locally."""
+    env = _env(tmp_path)
+    work = tmp_path / "motor-data"
+    work.mkdir()
+    assert _run([GIT, "init", "-q"], work, env).returncode == 0
+    hook = dict(_hook("sheetlint"))
+    hook.update({"entry": f"{SHEETLINT} {hook['entry'].split(' ', 1)[1]}",
+                 "language": "system"})
+    hook.pop("minimum_pre_commit_version", None)
+    config = {"repos": [{"repo": "local", "hooks": [hook]}]}
+    (work / ".pre-commit-config.yaml").write_text(yaml.safe_dump(config), encoding="utf-8")
+    (work / "motors").mkdir()
+    (work / "motors" / "good.yaml").write_text(GOOD, encoding="utf-8")
+    assert _run([GIT, "add", "."], work, env).returncode == 0
+    return work, env
+
+
+def test_manifest_is_valid_for_pre_commit():
+    result = _run([PRE_COMMIT, "validate-manifest", str(MANIFEST)], ROOT, _env(ROOT))
+    assert result.returncode == 0, result.stdout + result.stderr
+    hook = _hook("sheetlint")
+    assert hook["entry"] == "sheetlint check"
+    assert set(hook["types_or"]) == {"json", "yaml"}
+
+
+def test_hook_passes_consistent_record_and_skips_dot_files(repo: tuple[Path, dict[str, str]]):
+    work, env = repo
+    result = _run([PRE_COMMIT, "run", "--all-files"], work, env)
+    # .pre-commit-config.yaml is YAML but no record: were it checked, exit status 2
+    assert result.returncode == 0, result.stdout + result.stderr
+    assert "Passed" in result.stdout
+
+
+def test_hook_rejects_a_commit_with_a_planted_error(repo: tuple[Path, dict[str, str]]):
+    work, env = repo
+    assert _run([PRE_COMMIT, "install"], work, env).returncode == 0
+    first = _run([GIT, "commit", "-q", "-m", "good data"], work, env)
+    assert first.returncode == 0, first.stdout + first.stderr
+    (work / "motors" / "bad.yaml").write_text(BAD, encoding="utf-8")
+    _run([GIT, "add", "motors/bad.yaml"], work, env)
+    second = _run([GIT, "commit", "-q", "-m", "bad data"], work, env)
+    output = second.stdout + second.stderr
+    assert second.returncode != 0, output
+    assert "Failed" in output
+    assert "power-torque-speed" in output and "motors/bad.yaml" in output
+    log = _run([GIT, "log", "--oneline"], work, env).stdout.splitlines()
+    assert len(log) == 1  # the bad commit did not happen
