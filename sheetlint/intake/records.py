@@ -260,6 +260,10 @@ class _YamlBuilder:
             value = self.constructor.construct_object(node, deep=True)
         except yaml.YAMLError as exc:
             raise InputProblem(f"{self.name}: line {node.start_mark.line + 1}: {exc}") from None
+        except Exception:  # PyYAML's own constructors fail on some explicit tags ('!!float ')
+            tag = node.tag.rsplit(":", 1)[-1]
+            raise InputProblem(f"{self.name}: line {node.start_mark.line + 1}: '{node.value}' "
+                               f"cannot be read as {tag}") from None
         if isinstance(value, float) and not isinstance(value, bool):
             if value != value or value in (float("inf"), float("-inf")):
                 raise InputProblem(f"{self.name}: line {node.start_mark.line + 1}: "
