@@ -16,17 +16,18 @@ a one-worker pool, so the file at fault is named and every other file is still c
 from __future__ import annotations
 
 import math
-import multiprocessing
 import os
 import pickle
 import signal
 import time
 from collections.abc import Iterator, Sequence
-from multiprocessing.pool import Pool
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from sheetlint.batch import FileResult, check_file
 from sheetlint.engine.core import Settings
+
+if TYPE_CHECKING:  # multiprocessing is imported only when workers start (start-up time)
+    from multiprocessing.pool import Pool
 
 #: a batch below this many files runs serially when the caller leaves ``jobs`` open: starting
 #: workers costs about as much as checking this many files (measured with bench/bench_batch.py)
@@ -118,11 +119,13 @@ def _ordered_results(pool: Pool, chunks: list[list[str]],
 def _wait(iterator: Any, pool: Pool, pids: frozenset[int] | None,
           budget: float | None) -> bytes | None:
     """The next result, or None when ``budget`` seconds pass or a worker process dies."""
+    from multiprocessing import TimeoutError as Pending
+
     start = time.monotonic()
     while True:
         try:
             return iterator.next(timeout=POLL_SECONDS)
-        except multiprocessing.TimeoutError:
+        except Pending:
             pass
         if budget is not None and time.monotonic() - start > budget:
             return None
@@ -167,6 +170,8 @@ def _isolate(chunk: list[str], config: tuple[Settings | None, int | None, float 
 
 
 def _start_pool(workers: int, config: tuple[Settings | None, int | None, float | None]) -> Pool:
+    import multiprocessing
+
     methods = multiprocessing.get_all_start_methods()
     context = multiprocessing.get_context("fork" if "fork" in methods else None)
     return context.Pool(workers, initializer=_init_worker, initargs=config)
