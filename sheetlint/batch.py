@@ -129,7 +129,7 @@ def check_file(path: str, settings: Settings | None = None, *,
     except RecursionError:
         return FileResult(path, f"{path}: document nested too deeply")
     except MemoryError:
-        return FileResult(path, f"{path}: out of memory while reading the file")
+        return FileResult(path, f"{path}: out of memory while checking the file")
     except Exception as exc:  # a bug of ours must not stop the batch
         return FileResult(path, f"{path}: {_internal(exc)}")
 
