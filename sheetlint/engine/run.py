@@ -137,16 +137,19 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
     derive(sheet, relations)
     evaluations: list[Evaluation] = []
     for relation in relations:
-        if isinstance(relation, Monomial):
-            for variant in relation.variants(sheet):
-                evaluation = variant.evaluate(sheet)
-                if evaluation is None:
-                    continue
-                evaluations.append(evaluation)
-                if abs(evaluation.residual) > evaluation.tolerance:
-                    evaluation.finding = variant.failure(sheet, evaluation)
-            continue
-        findings.extend(relation.check(sheet))
+        try:
+            if isinstance(relation, Monomial):
+                for variant in relation.variants(sheet):
+                    evaluation = variant.evaluate(sheet)
+                    if evaluation is None:
+                        continue
+                    if abs(evaluation.residual) > evaluation.tolerance:
+                        evaluation.finding = variant.failure(sheet, evaluation)
+                    evaluations.append(evaluation)
+                continue
+            findings.extend(relation.check(sheet))
+        except NUMERIC_FAILURES as exc:
+            findings.append(_not_evaluated(sheet, relation, exc))
     findings.extend(_explain_failures(sheet, evaluations))
     findings.extend(sheet.findings)
     findings = [f for f in findings if settings.enabled(f.rule) or f.rule == "unreadable"]
@@ -156,13 +159,27 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
     return RecordResult(record.id, None, findings, derived, sheet, index)
 
 
+#: arithmetic that values far outside any machine's range can still provoke
+NUMERIC_FAILURES = (ArithmeticError, ValueError)
+
+
+def _not_evaluated(sheet: Sheet, relation: Any, exc: BaseException) -> Finding:
+    return sheet.finding(relation, "warning", f"{relation.title}: could not be evaluated on "
+                         f"these values ({type(exc).__name__}); check their magnitudes",
+                         relation.fields)
+
+
 def derive(sheet: Sheet, relations: list[Any]) -> None:
     """Run every relation's ``derive`` until no new value appears (a fixed point)."""
     values = sheet.values
     for _ in range(MAX_DERIVE_ROUNDS):
         changed = False
         for relation in relations:
-            for d in relation.derive(sheet):
+            try:
+                derivations = list(relation.derive(sheet))
+            except NUMERIC_FAILURES:
+                continue  # the check of the same relation reports it
+            for d in derivations:
                 if d.field in values or not math.isfinite(d.value):
                     continue
                 values[d.field] = Known(

@@ -9,6 +9,12 @@ from sheetlint.fields import display, spec_for
 from sheetlint.relations.registry import register
 
 KNOWN_THERMAL_CLASSES = (105, 120, 130, 155, 180, 200, 220)
+#: SI magnitudes outside this envelope belong to no electrical machine (a 1e-15 H inductance,
+#: a 1e15 W motor); they are refused so that no relation computes with them
+MAGNITUDE_ENVELOPE = (1e-15, 1e15)
+#: magnets lose their magnetisation long before this (NdFeB Curie point about 310-400 °C,
+#: SmCo about 720-820 °C; magnet makers' data sheets, as quoted in REFERENCES.md §6 sources)
+HIGHEST_MAGNET_TEMPERATURE = 273.15 + 850.0
 
 
 @register
@@ -33,7 +39,7 @@ class ValueRange(Relation):
 
     rule = "value-range"
     title = "physically possible values"
-    equation = "x > 0; 0 < η < 1; 0 < cos φ ≤ 1; poles = 2k, k ≥ 1"
+    equation = "x > 0 (and within 1e-15…1e15 SI); 0 < η < 1; 0 < cos φ ≤ 1; poles = 2k, k ≥ 1"
     kind = "bound"
     severity_policy = "error for an impossible value (left out of all other relations); " \
                       "warning for an unknown thermal class"
@@ -77,13 +83,20 @@ class ValueRange(Relation):
                 return "must be a positive integer"
             return None
         if kind == "temperature":
-            return "below absolute zero" if value <= 0.0 else None
+            if value <= 0.0:
+                return "below absolute zero"
+            if "magnet_temperature" in path and value > HIGHEST_MAGNET_TEMPERATURE:
+                return "above the Curie temperature of every magnet material"
+            return None
         if path == "machine.altitude" or path.startswith("rated.losses."):
             return "must not be negative" if value < 0.0 else None
         if kind == "temperature_difference":
             return "must not be negative" if value < 0.0 else None
         if value <= 0.0:
             return "must be positive"
+        low, high = MAGNITUDE_ENVELOPE
+        if not low <= value <= high:
+            return "far outside the range of any electrical machine"
         return None
 
 
