@@ -218,6 +218,9 @@ class Relation:
     status: ClassVar[str] = "stable"  # stable | preview
     #: relations are run in ascending order of ``order`` within each derive round and check
     order: ClassVar[int] = 50
+    #: the fields ``derive`` reads; the engine calls it again only when one of them appears.
+    #: None (the default) means unknown: called in every round.
+    derive_inputs: ClassVar[tuple[str, ...] | None] = None
 
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
         return iter(())

@@ -21,6 +21,7 @@ from sheetlint.engine.core import (
     SEVERITY_RANK,
     Finding,
     Known,
+    Relation,
     Settings,
     Sheet,
 )
@@ -119,7 +120,9 @@ def check_record(raw: RawRecord, settings: Settings | None = None) -> RecordResu
     try:
         record = MachineRecord.model_validate(data)
     except ValidationError as exc:
-        message = schema_message(data) or validation_message(exc, data)
+        content_only = all(e.get("type") == "value_error" for e in exc.errors())
+        message = (validation_message(exc, data) if content_only else
+                   schema_message(data) or validation_message(exc, data))
         return RecordResult(label, message, index=raw.index)
     return run_engine(record, settings, raw.locate, raw.index)
 
@@ -170,11 +173,24 @@ def _not_evaluated(sheet: Sheet, relation: Any, exc: BaseException) -> Finding:
 
 
 def derive(sheet: Sheet, relations: list[Any]) -> None:
-    """Run every relation's ``derive`` until no new value appears (a fixed point)."""
+    """Run the relations' ``derive`` until no new value appears (a fixed point).
+
+    A relation is called again only when a field it reads (``derive_inputs``) appeared since
+    its last call; relations that declare no inputs are called every round.
+    """
     values = sheet.values
+    plan = _derive_plan(tuple(relations))
+    added: list[str] = []
+    seen = [-1] * len(plan)  # position in ``added`` at each relation's last call
     for _ in range(MAX_DERIVE_ROUNDS):
-        changed = False
-        for relation in relations:
+        before = len(added)
+        for index, (relation, inputs, per_point) in enumerate(plan):
+            last = seen[index]
+            if last >= 0 and inputs is not None and not any(
+                    f in inputs or (per_point and f.startswith("points["))
+                    for f in added[last:]):
+                continue
+            seen[index] = len(added)
             try:
                 derivations = list(relation.derive(sheet))
             except NUMERIC_FAILURES:
@@ -186,9 +202,25 @@ def derive(sheet: Sheet, relations: list[Any]) -> None:
                     d.value, d.uncertainty, ESTIMATE if d.estimate else DERIVED, relation.rule,
                     d.inputs, note=d.note, sensitivity=d.sensitivity,
                     temperature=d.temperature)
-                changed = True
-        if not changed:
+                added.append(d.field)
+        if len(added) == before:
             return
+
+
+@cache
+def _derive_plan(relations: tuple[Any, ...]) -> list[tuple[Any, frozenset[str] | None, bool]]:
+    """The relations that derive anything, with the fields they read (None: unknown)."""
+    plan = []
+    for relation in relations:
+        if type(relation).derive is Relation.derive:
+            continue
+        inputs = getattr(relation, "derive_inputs", None)
+        if inputs is None and isinstance(relation, Monomial) and (
+                type(relation).derive is Monomial.derive):
+            inputs = tuple(relation.terms)
+        plan.append((relation, frozenset(inputs) if inputs is not None else None,
+                     bool(getattr(relation, "per_point", False))))
+    return plan
 
 
 def _explain_failures(sheet: Sheet, evaluations: list[Evaluation]) -> list[Finding]:

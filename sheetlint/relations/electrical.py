@@ -91,6 +91,8 @@ class LossBalance(Relation):
     severity_policy = "error beyond rounding; error when the copper loss exceeds the losses"
     source = "IEC 60034-2-1:2014, determination of losses (summation), from memory"
     order = 14
+    derive_inputs = ("rated.power", "rated.efficiency", "rated.losses", "rated.current",
+                     "circuit.resistance_hot", "rated.losses.copper")
 
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
         v = sheet.values

@@ -43,6 +43,8 @@ class MagnetTemperature(Relation):
     severity_policy = "derives only"
     source = "magnet makers' technical notes (reversible temperature coefficient of Br), as quoted"
     order = 30
+    derive_inputs = ("emf.constant", "rated.magnet_temperature", "machine.ambient.min",
+                     "emf.constant_hot", "emf.constant_cold")
 
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
         v = sheet.values
@@ -96,6 +98,7 @@ class EmfVoltage(Monomial):
     severity_policy = "error beyond rounding; basis slips named"
     source = "Hendershot & Miller, Design of Brushless Permanent-Magnet Machines (2010)"
     derive_fields = ("emf.constant", "emf.voltage")
+    derive_inputs = ("emf.voltage", "emf.constant", "emf.speed", "rated.speed")
     order = 20
 
     def field_names(self, sheet: Sheet) -> dict[str, float]:
@@ -147,6 +150,7 @@ class TorqueConstant(Monomial):
                       "either 20 °C or hot accepted"
     source = "Krishnan, Permanent Magnet Synchronous and Brushless DC Motor Drives (CRC 2010)"
     order = 21
+    derive_inputs = ("torque_constant", "emf.constant")
 
     def constant(self, sheet: Sheet) -> float | None:
         stated = _kt_temperature_factor(sheet)
@@ -299,6 +303,7 @@ class VoltageMargin(Relation):
                       "ipm/pmasynrm: warning below 0 %"
     source = "common practice (no published source): REFERENCES.md §9"
     order = 40
+    derive_inputs = ("rated.voltage", "emf.constant_hot", "rated.speed")
 
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
         if sheet.attr("machine.topology") != "spm":

@@ -103,6 +103,7 @@ class SynchronousSpeed(Monomial):
     source = "Fitzgerald, Kingsley, Umans, Electric Machinery, 6th ed. (2003), ch. 4"
     per_point = True
     derive_fields = ("rated.speed", "rated.frequency")
+    derive_inputs = ("rated.speed", "rated.frequency", "machine.pole_pairs", "machine.poles")
     order = 10
 
     def constant(self, sheet: Sheet) -> float:
