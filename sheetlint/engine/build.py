@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import difflib
 import math
+from functools import cache
 from typing import Any
 
 from sheetlint.engine.core import Finding, Known, Settings, Sheet
@@ -51,20 +52,28 @@ def thermal_class_number(value: Any) -> int | str | None:
     return int(number) if number.is_integer() else str(value)
 
 
-def _known(path: str, m: Measured, temperature: float | None = None) -> Known:
+@cache
+def _basis_plan(path: str) -> tuple[dict[str, float] | None, str | None]:
+    """(factor per stated basis, default basis) of a field path; (None, None) without bases."""
     spec = spec_for(path)
     kind = spec.kind if spec else "ratio"
-    factor = 1.0
+    if kind not in BASES:
+        return None, None
+    return BASIS_FACTOR[kind], BASES[kind][0]
+
+
+def _known(path: str, m: Measured, temperature: float | None = None) -> Known:
+    factors, default = _basis_plan(path)
     basis = m.basis
-    if kind in BASES:
-        factor = BASIS_FACTOR[kind][basis or BASES[kind][0]]
+    reading = m.reading
+    factor = factors[basis or default] if factors is not None else 1.0  # type: ignore[index]
     return Known(
-        m.value * factor,
-        m.reading.uncertainty,
-        basis=basis or (BASES[kind][0] if kind in BASES else None),
+        reading.value * factor,
+        reading.uncertainty,
+        basis=basis or default,
         basis_stated=basis is not None,
         temperature=temperature if temperature is not None else m.temperature,
-        text=f"{m.reading.text} {m.reading.unit}".strip(),
+        text=f"{reading.text} {reading.unit}".strip(),
         sensitivity={path: 1.0},
     )
 
@@ -74,10 +83,13 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
     """The sheet of a validated record, and notes about unknown fields (info / warning)."""
     values: dict[str, Known] = {}
     notes: list[Finding] = []
+    odd_qualifiers: list[tuple[str, Measured]] = []
 
     def put(path: str, m: Measured | None, temperature: float | None = None) -> None:
         if m is not None:
             values[path] = _known(path, m, temperature)
+            if m.unknown_qualifiers:
+                odd_qualifiers.append((path, m))
 
     machine, rated, emf = record.machine, record.rated, record.emf
     for name in POINT_FIELDS:
@@ -149,11 +161,17 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
         "suppress": [(s.rule, s.reason, s.field) for s in record.suppress],
     }
     sheet = Sheet(record.id, values, attributes, settings, locate)
-    notes.extend(_unknown_field_notes(record, sheet))
+    notes.extend(_unknown_field_notes(record, sheet, odd_qualifiers))
     return sheet, notes
 
 
-def _unknown_field_notes(record: MachineRecord, sheet: Sheet) -> list[Finding]:
+@cache
+def _field_names(model_type: type) -> tuple[str, ...]:
+    return tuple(model_type.model_fields)
+
+
+def _unknown_field_notes(record: MachineRecord, sheet: Sheet,
+                         odd_qualifiers: list[tuple[str, Measured]]) -> list[Finding]:
     from sheetlint.relations.basics import UnknownFields
 
     rule = UnknownFields()
@@ -162,8 +180,10 @@ def _unknown_field_notes(record: MachineRecord, sheet: Sheet) -> list[Finding]:
     sections += [(name, getattr(record, name)) for name in SECTIONS]
     sections += [(f"points[{i}]", p) for i, p in enumerate(record.points)]
     for prefix, model in sections:
-        extra = model.model_extra or {}
-        known = list(type(model).model_fields)
+        extra = model.model_extra
+        if not extra:
+            continue
+        known = list(_field_names(type(model)))
         for name in extra:
             path = f"{prefix}.{name}" if prefix else name
             if "." in name and not prefix:
@@ -178,23 +198,10 @@ def _unknown_field_notes(record: MachineRecord, sheet: Sheet) -> list[Finding]:
             else:
                 out.append(sheet.finding(rule, "info", f"field '{path}' is not part of the "
                                          "schema; kept but not checked", (path,)))
-    for path, m in _measured_fields(record):
+    for path, m in odd_qualifiers:
         for q in m.unknown_qualifiers:
             out.append(sheet.finding(rule, "info", f"qualifier '{q}' of {path} is not part of "
                                      "the schema; kept but not used", (path,)))
-    return out
-
-
-def _measured_fields(record: MachineRecord) -> list[tuple[str, Measured]]:
-    out: list[tuple[str, Measured]] = []
-    for name in SECTIONS:
-        section = getattr(record, name)
-        for field_name in type(section).model_fields:
-            value = getattr(section, field_name)
-            if isinstance(value, Measured) and value.unknown_qualifiers:
-                out.append((f"{name}.{field_name}", value))
-    if record.torque_constant is not None and record.torque_constant.unknown_qualifiers:
-        out.append(("torque_constant", record.torque_constant))
     return out
 
 

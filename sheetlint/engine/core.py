@@ -118,8 +118,8 @@ class Settings:
 class Sheet:
     """The engine's view of one record: known SI values plus non-physical attributes."""
 
-    __slots__ = ("attributes", "derived_by", "findings", "locate", "record_id", "settings",
-                 "values")
+    __slots__ = ("attributes", "derived_by", "findings", "locate", "located", "record_id",
+                 "settings", "values")
 
     def __init__(
         self,
@@ -134,6 +134,7 @@ class Sheet:
         self.attributes = dict(attributes)
         self.settings = settings or Settings()
         self.locate = locate or (lambda _field: None)
+        self.located: dict[str, dict[str, Any] | None] = {}
         self.findings: list[Finding] = []
 
     # --- access -------------------------------------------------------------------------
@@ -191,8 +192,12 @@ class Sheet:
         act.update(actual_text or {})
         fields = tuple(fields)
         location = None
+        located = self.located
         for f in fields:
-            location = self.locate(f)
+            if f in located:
+                location = located[f]
+            else:
+                location = located[f] = self.locate(f)
             if location:
                 break
         return Finding(relation.rule, severity, message, fields, exp, act, deviation, cause,
