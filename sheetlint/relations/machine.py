@@ -449,7 +449,7 @@ class DqOperatingPoint(Relation):
                 self, self._basis_severity(sheet, cause, "warning", estimate),
                 f"The model cannot make the rated torque {shaft_torque:.4g} N·m at "
                 f"{_rpm(speed)} within {limit_value:.0f} V at any current (at most "
-                f"{t_max:.4g} N·m). {_join(notes)}{CAUTION}",
+                f"{t_max:.4g} N·m). {_join(notes)}".rstrip(),
                 _unique([*torque_fields, "rated.voltage", *base_fields]), cause=cause)
             return
 
@@ -500,7 +500,7 @@ class DqOperatingPoint(Relation):
                    f"{math.degrees(nominal.load_angle):.1f}°, i_d = {nominal.id / SQRT2:.4g} A "
                    f"rms, copper loss {nominal.copper_loss:.4g} W.")
         if not mismatches:
-            yield sheet.finding(self, "info", f"{summary} {_join(notes)}{CAUTION}",
+            yield sheet.finding(self, "info", f"{summary} {_join(notes)}".rstrip(),
                                 base_fields)
             return
         cause = None
@@ -511,7 +511,7 @@ class DqOperatingPoint(Relation):
             if severity != "info":
                 severity = self._basis_severity(sheet, cause, severity, estimate)
             yield sheet.finding(
-                self, severity, f"{text}. {summary} {_join(notes)}{CAUTION}",
+                self, severity, f"{text}. {summary} {_join(notes)}".rstrip(),
                 _unique([name, *base_fields]), expected={name: expected}, actual={name: actual},
                 deviation=actual / expected - 1.0 if expected else None, cause=cause)
 
@@ -902,7 +902,7 @@ class PullOutMargin(Relation):
                  f"pulls out at {t_po:.4g} N·m ({ratio:.2f}× rated torque)"
                  + (f"; load angle at rated torque {math.degrees(angle):.1f}°" if angle is not
                     None else "; rated torque is beyond pull-out")
-                 + f". {closed} {_join(inputs.notes)}{CAUTION}")
+                 + f". {closed} {_join(inputs.notes)}".rstrip())
         if ratio >= min_ratio:
             yield sheet.finding(self, "info", facts, fields)
             return
