@@ -624,7 +624,11 @@ class VoltageLimitRelation(Relation):
         if inputs is None:
             return
         has_l = inputs.machine.ld > 0.0 and inputs.machine.lq > 0.0
-        for prefix in ["rated", *_point_prefixes(sheet)]:
+        # with no supply stated the limit is the rated voltage itself; without a hot back-EMF
+        # the rated point would be judged with magnets at 20 °C, which overstates the EMF at
+        # rated load: leave that comparison to voltage-margin, which says which it used
+        prefixes = ["rated"] if limit.from_supply or sheet.has("emf.constant_hot") else []
+        for prefix in [*prefixes, *_point_prefixes(sheet)]:
             speed_known = sheet.get(f"{prefix}.speed")
             if speed_known is None or speed_known.value <= 0.0:
                 continue
