@@ -115,3 +115,23 @@ def test_standstill_voltage_is_small_next_to_rated_voltage_common_practice(spm_1
     result = run(spm_15kw)
     drop = [f for f in result.findings if f.rule == "resistance-drop"]
     assert drop and drop[0].severity == "info" and "standstill" in drop[0].message
+
+
+def test_spm_rated_voltage_is_estimated_from_hot_back_emf_by_the_usual_margin(spm_15kw):
+    # common practice (REFERENCES §9): U_rated ≈ 1.065·E_hot; an estimate, flagged, checks nothing
+    data = spm_15kw
+    voltage = float(data["rated"].pop("voltage").split()[0])
+    result = run(data)
+    estimate = result.derived["rated.voltage"]
+    assert estimate.is_estimate and "common practice" in (estimate.note or "")
+    assert estimate.value == pytest.approx(voltage, rel=0.01)
+    assert serious(result) == []
+
+
+def test_spm_ke_is_estimated_from_rated_voltage_when_the_sheet_lacks_it(spm_15kw):
+    data = spm_15kw
+    ke = data["emf"].pop("constant")["value"]
+    result = run(data)
+    estimate = result.derived["emf.constant"]
+    assert estimate.is_estimate
+    assert estimate.value * 2 * math.pi * 1000 / 60 == pytest.approx(ke, rel=0.01)

@@ -155,6 +155,7 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
             findings.append(_not_evaluated(sheet, relation, exc))
     findings.extend(_explain_failures(sheet, evaluations))
     findings.extend(sheet.findings)
+    _estimate(sheet, relations)
     findings = [f for f in findings if settings.enabled(f.rule) or f.rule == "unreadable"]
     _apply_suppressions(sheet, findings)
     findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))
@@ -205,6 +206,23 @@ def derive(sheet: Sheet, relations: list[Any]) -> None:
                 added.append(d.field)
         if len(added) == before:
             return
+
+
+def _estimate(sheet: Sheet, relations: list[Any]) -> None:
+    """Rules of thumb fill what the sheet lacks, after every check: estimates check nothing."""
+    values = sheet.values
+    for relation in relations:
+        estimate = getattr(relation, "estimate", None)
+        if estimate is None:
+            continue
+        try:
+            estimates = list(estimate(sheet))
+        except NUMERIC_FAILURES:
+            continue
+        for d in estimates:
+            if d.field not in values and math.isfinite(d.value):
+                values[d.field] = Known(d.value, d.uncertainty, ESTIMATE, relation.rule,
+                                        d.inputs, note=d.note)
 
 
 @cache

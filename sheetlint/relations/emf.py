@@ -303,18 +303,32 @@ class VoltageMargin(Relation):
                       "ipm/pmasynrm: warning below 0 %"
     source = "common practice (no published source): REFERENCES.md §9"
     order = 40
-    derive_inputs = ("rated.voltage", "emf.constant_hot", "rated.speed")
 
-    def derive(self, sheet: Sheet) -> Iterator[Derivation]:
+    def estimate(self, sheet: Sheet) -> Iterator[Derivation]:
+        """After all checks: a missing rated voltage or Ke of an spm machine by the usual margin.
+
+        Estimates fill what a commissioning engineer needs; they are never used by a check.
+        """
         if sheet.attr("machine.topology") != "spm":
             return
         v = sheet.values
         margin = float(sheet.option(self.rule, "usual", USUAL_MARGIN))
+        note = f"hot back-EMF plus the usual {margin:.1%} (common practice)"
         if "rated.voltage" not in v and sheet.has("emf.constant_hot", "rated.speed"):
             e = v["emf.constant_hot"].value * v["rated.speed"].value
             yield Derivation("rated.voltage", e * (1 + margin), 0.01,
-                             ("emf.constant_hot", "rated.speed"), estimate=True,
-                             note=f"hot back-EMF plus the usual {margin:.1%} (common practice)")
+                             ("emf.constant_hot", "rated.speed"), estimate=True, note=note)
+        if "emf.constant" not in v and sheet.has("rated.voltage", "rated.speed",
+                                                 "rated.magnet_temperature"):
+            hot = v["rated.magnet_temperature"].value
+            ke_hot = v["rated.voltage"].value / (1 + margin) / v["rated.speed"].value
+            factor = remanence_factor(sheet.attr("machine.magnet"), ROOM, hot,
+                                      sheet.option("magnet-temperature", "alpha", None))
+            if factor > 0:
+                yield Derivation("emf.constant", ke_hot / factor, 0.01,
+                                 ("rated.voltage", "rated.speed", "rated.magnet_temperature"),
+                                 estimate=True, note=f"at 20 °C, from the rated voltage less "
+                                 f"the usual {margin:.1%} (common practice)")
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         v = sheet.values
