@@ -104,6 +104,20 @@ _FAST: dict[str, tuple[str, float]] = {
     "kgcm**2": ("inertia", 1e-4), "kg*mm**2": ("inertia", 1e-6),
     "m": ("length", 1.0), "mm": ("length", 1e-3), "cm": ("length", 1e-2), "km": ("length", 1e3),
     "s": ("time", 1.0), "ms": ("time", 1e-3), "min": ("time", 60.0), "h": ("time", 3600.0),
+    # further trade spellings, so that usual sheets never need the pint registry at start-up;
+    # factors from NIST SP 811 (2008), Appendix B
+    "mN*m": ("torque", 1e-3), "mNm": ("torque", 1e-3), "MN*m": ("torque", 1e6),
+    "lbf*in": ("torque", 0.1129848290276167), "in*lbf": ("torque", 0.1129848290276167),
+    "ozf*in": ("torque", 7.061551814e-3), "oz*in": ("torque", 7.061551814e-3),
+    "kgf*m": ("torque", 9.80665), "kp*m": ("torque", 9.80665),
+    "GW": ("power", 1e9),
+    "MHz": ("frequency", 1e6), "uV": ("voltage", 1e-6), "MV": ("voltage", 1e6),
+    "uA": ("current", 1e-6), "uohm": ("resistance", 1e-6), "Mohm": ("resistance", 1e6),
+    "nH": ("inductance", 1e-9), "g": ("mass", 1e-3),
+    "g*cm**2": ("inertia", 1e-7), "gcm**2": ("inertia", 1e-7),
+    "lb*ft**2": ("inertia", 0.04214011009), "lb*in**2": ("inertia", 2.926396534e-4),
+    "oz*in**2": ("inertia", 1.828997834e-5),
+    "in": ("length", 0.0254), "ft": ("length", 0.3048), "um": ("length", 1e-6),
 }
 #: spellings in the wrong case that are unambiguous on a datasheet (``KW`` is never kelvin-watt)
 _FAST_ANY_CASE: dict[str, tuple[str, float]] = {

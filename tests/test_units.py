@@ -72,3 +72,18 @@ def test_declared_ratings_count_trailing_zeros_characteristics_may_not():
 def test_non_finite_or_non_numeric_values_are_unreadable(text):
     with pytest.raises(UnitProblem):
         read_value(text, None, "power", True)
+
+
+@pytest.mark.parametrize("text,kind,si", [
+    # NIST SP 811 (2008), App. B: ounce-force inch = 7.061 552 E-03 N·m
+    ("1 oz·in", "torque", 7.061552e-3),
+    # NIST SP 811 (2008), App. B: pound-force inch = 1.129 848 E-01 N·m
+    ("1 lbf·in", "torque", 0.1129848),
+    # NIST SP 811 (2008), App. B: kilogram-force meter = 9.806 65 N·m
+    ("1 kgf·m", "torque", 9.80665),
+    # NIST SP 811 (2008), App. B: pound foot squared = 4.214 011 E-02 kg·m²
+    ("1 lb·ft²", "inertia", 0.04214011),
+    ("1 g·cm²", "inertia", 1e-7),
+])
+def test_small_motor_units_convert_per_nist_sp811_appendix_b(text, kind, si):
+    assert read_value(text, None, kind, False).value == pytest.approx(si, rel=1e-6)
