@@ -86,8 +86,8 @@ def repo(tmp_path: Path) -> tuple[Path, dict[str, str]]:
     return work, env
 
 
-def test_manifest_is_valid_for_pre_commit():
-    result = _run([PRE_COMMIT, "validate-manifest", str(MANIFEST)], ROOT, _env(ROOT))
+def test_manifest_is_valid_for_pre_commit(tmp_path: Path):
+    result = _run([PRE_COMMIT, "validate-manifest", str(MANIFEST)], ROOT, _env(tmp_path))
     assert result.returncode == 0, result.stdout + result.stderr
     hook = _hook("sheetlint")
     assert hook["entry"] == "sheetlint check"
