@@ -187,10 +187,11 @@ def derive(sheet: Sheet, relations: list[Any]) -> None:
         before = len(added)
         for index, (relation, inputs, per_point) in enumerate(plan):
             last = seen[index]
-            if last >= 0 and inputs is not None and not any(
-                    f in inputs or (per_point and f.startswith("points["))
-                    for f in added[last:]):
-                continue
+            if last >= 0 and inputs is not None:
+                fresh = added[last:]
+                if inputs.isdisjoint(fresh) and not (
+                        per_point and any(f.startswith("points[") for f in fresh)):
+                    continue
             seen[index] = len(added)
             try:
                 derivations = list(relation.derive(sheet))

@@ -105,6 +105,8 @@ class TemperatureRise(Relation):
     source = TEMPERATURE_RISE_SOURCE
     status = "stable"
     order = 20
+    derive_inputs = ("circuit.resistance", "circuit.resistance_hot", "rated.temperature_rise",
+                     "machine.ambient", "rated.magnet_temperature")
 
     # --- derive ---------------------------------------------------------------------------
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
