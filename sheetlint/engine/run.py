@@ -277,9 +277,9 @@ def _apply_suppressions(sheet: Sheet, findings: list[Finding]) -> None:
                 f.suppressed = reason
                 used.add(i)
                 break
-    from sheetlint.relations.basics import UnknownFields
+    from sheetlint.relations.basics import UnusedSuppression
 
-    marker = UnknownFields()
+    marker = UnusedSuppression()
     for i, (rule, _reason, _field) in enumerate(entries):
         if i not in used:
             findings.append(sheet.finding(marker, "info", f"suppression of '{rule}' no longer "

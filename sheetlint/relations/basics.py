@@ -107,7 +107,7 @@ class UnknownFields(Relation):
     What it checks: every field of the record is one of the data contract's. Unknown fields are
     kept (vendors and users add their own) and reported as info; one that looks like a
     misspelling of a known field (``rated.powr``) is a warning naming the field it probably
-    meant, since its value was not used. Also reports suppressions that no longer match.
+    meant, since its value was not used.
 
     Fix: rename the field, or leave it (info only).
     """
@@ -118,4 +118,25 @@ class UnknownFields(Relation):
     kind = "bound"
     severity_policy = "info for an unknown field; warning for a probable misspelling"
     source = "sheetlint data contract (schema/pm-machine.schema.json)"
+    order = 0
+
+
+@register
+class UnusedSuppression(Relation):
+    """A suppression in the record that no longer matches any finding.
+
+    What it checks: every entry of the record's ``suppress`` list (rule id, optional field,
+    mandatory reason) still covers a finding. One that covers nothing has outlived the problem
+    it documented (the data were corrected, or the rule changed) and should be removed, so that
+    a later regression is not silenced by it.
+
+    Fix: delete the entry.
+    """
+
+    rule = "unused-suppression"
+    title = "suppressions that match nothing"
+    equation = "each suppression covers ≥ 1 finding"
+    kind = "bound"
+    severity_policy = "info"
+    source = "sheetlint data contract (suppress)"
     order = 0

@@ -61,7 +61,7 @@ class MagnetTemperature(Relation):
                              ("emf.constant", "rated.magnet_temperature"),
                              estimate=ke.is_estimate or hot.is_estimate,
                              note=f"{magnet} at {hot.value - 273.15:.0f} °C",
-                             sensitivity=ke.sensitivity)
+                             sensitivity=ke.sensitivity, temperature=hot.value)
         if "emf.constant_cold" not in v:
             cold = v.get("machine.ambient.min")
             t_cold = cold.value if cold else ROOM
@@ -70,7 +70,7 @@ class MagnetTemperature(Relation):
                     + ("" if cold else " (no lowest ambient given: 20 °C assumed)"))
             yield Derivation("emf.constant_cold", ke.value * factor, ke.uncertainty,
                              ("emf.constant",), estimate=ke.is_estimate, note=note,
-                             sensitivity=ke.sensitivity)
+                             sensitivity=ke.sensitivity, temperature=t_cold)
 
 
 @register
