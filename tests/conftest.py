@@ -11,6 +11,30 @@ from sheetlint.engine.run import RecordResult, check_record
 from sheetlint.intake.records import RawRecord
 from sheetlint.synth import MachineSpec, record
 
+#: an invented 15 kW, 1500 rpm, 8-pole surface-magnet record (YAML) shared by the output tests;
+#: consistent in power, torque, speed and frequency
+PMX15_YAML = """\
+id: "Invented PMX-15"
+machine: {topology: spm, poles: 8}
+rated:
+  power: "15 kW"
+  torque: "95.5 N*m"
+  speed: "1500 rpm"
+  frequency: "100 Hz"
+  voltage: "400 V"
+  current: "26.5 A"
+  power_factor: 0.9
+  efficiency: "94 %"
+emf: {constant: "240 V/krpm"}
+"""
+
+
+def pmx15(record_id: str = "Invented PMX-15", torque: str = "95.5 N*m",
+          ke: str = "240 V/krpm") -> str:
+    """The shared invented record with another id, torque or Ke."""
+    return (PMX15_YAML.replace('"Invented PMX-15"', f'"{record_id}"')
+            .replace('"95.5 N*m"', f'"{torque}"').replace('"240 V/krpm"', f'"{ke}"'))
+
 
 def run(data: dict[str, Any]) -> RecordResult:
     return check_record(RawRecord(copy.deepcopy(data), None, ""))

@@ -12,25 +12,13 @@ import pytest
 from sheetlint.cli import main
 from sheetlint.config import ConfigError, find_config, read_config, resolve
 from sheetlint.progress import with_progress
+from tests.conftest import pmx15
 
 KNOWN = ("power-torque-speed", "voltage-margin", "magnet-temperature", "emf-constant")
 
 #: spm, U = 400 V, Ke = 180 V/krpm: E = 270 V at 1500 rpm, a margin of +48 % (far above the
 #: 6-7 % band of common practice) -> voltage-margin warning with the default options
-WIDE_MARGIN = """\
-id: "Invented PMX-15W"
-machine: {topology: spm, poles: 8}
-rated:
-  power: "15 kW"
-  torque: "95.5 N*m"
-  speed: "1500 rpm"
-  frequency: "100 Hz"
-  voltage: "400 V"
-  current: "26.5 A"
-  power_factor: 0.9
-  efficiency: "94 %"
-emf: {constant: "180 V/krpm"}
-"""
+WIDE_MARGIN = pmx15("Invented PMX-15W", ke="180 V/krpm")
 #: torque 15 % above P/omega: power-torque-speed error (P = T*omega, SI definition)
 PLANTED = WIDE_MARGIN.replace('"95.5 N*m"', '"110 N*m"')
 

@@ -11,23 +11,12 @@ import pytest
 from sheetlint.batch import check_file
 from sheetlint.cli import main
 from sheetlint.report import html as html_report
+from tests.conftest import pmx15
 
 RPM = 2.0 * math.pi / 60.0
 
 #: spm with a DC link and a maximum speed (both plots have what they need)
-SPM = """\
-id: "Invented PMX-15"
-machine: {topology: spm, poles: 8}
-rated:
-  power: "15 kW"
-  torque: "95.5 N*m"
-  speed: "1500 rpm"
-  frequency: "100 Hz"
-  voltage: "400 V"
-  current: "26.5 A"
-  power_factor: 0.9
-  efficiency: "94 %"
-emf: {constant: "240 V/krpm"}
+SPM = pmx15() + """\
 limits: {max_speed: "3000 rpm", peak_torque: "190 N*m"}
 supply: {dc_link_voltage: "565 V"}
 points:

@@ -15,24 +15,12 @@ import pytest
 
 from sheetlint.cli import main
 from sheetlint.relations.registry import all_relations, rule_ids
+from tests.conftest import pmx15
 
 SCHEMA_PATH = Path(__file__).parent / "data" / "sarif-schema-2.1.0.json"
 PDF_FIXTURE = Path(__file__).parent.parent / "fixtures" / "pdf" / "pump_motor_en.pdf"
 
-CONSISTENT = """\
-id: "Invented PMX-15"
-machine: {topology: spm, poles: 8}
-rated:
-  power: "15 kW"
-  torque: "95.5 N*m"
-  speed: "1500 rpm"
-  frequency: "100 Hz"
-  voltage: "400 V"
-  current: "26.5 A"
-  power_factor: 0.9
-  efficiency: "94 %"
-emf: {constant: "240 V/krpm"}
-"""
+CONSISTENT = pmx15()
 #: torque 15 % above P/omega: a power-torque-speed error (P = T*omega, SI definition)
 PLANTED = CONSISTENT.replace('"95.5 N*m"', '"110 N*m"').replace("PMX-15", "PMX-15T")
 TORQUE_LINE = 5  # line of "torque:" in the records above

@@ -12,23 +12,11 @@ from pathlib import Path
 import pytest
 
 from sheetlint.cli import main
+from tests.conftest import pmx15
 
 REASON = "vendor confirmed: torque listed at the reduced-speed point"
 
-RECORD = """\
-id: "Invented PMX-15B"
-machine: {topology: spm, poles: 8}
-rated:
-  power: "15 kW"
-  torque: "110 N*m"
-  speed: "1500 rpm"
-  frequency: "100 Hz"
-  voltage: "400 V"
-  current: "26.5 A"
-  power_factor: 0.9
-  efficiency: "94 %"
-emf: {constant: "240 V/krpm"}
-"""
+RECORD = pmx15("Invented PMX-15B", torque="110 N*m")
 
 
 def _write(tmp_path: Path, suppress: str = "", name: str = "motor.yaml") -> str:
