@@ -13,6 +13,7 @@ import math
 from collections.abc import Callable, Iterator
 from dataclasses import dataclass, field
 
+from sheetlint.cautions import FINDING_CAUTION as CAUTION
 from sheetlint.engine.core import Finding, Relation, Sheet
 from sheetlint.physics.dq import (
     DIODE_BRIDGE_DC_RATIO,
@@ -37,9 +38,6 @@ from sheetlint.standards.tolerances import power_factor_tolerance
 
 ROOM = 293.15  # K, 20 °C: the reference temperature assumed when a sheet states none
 
-CAUTION = ("Engineering aid, not an approval: confirm machine and converter ratings with the "
-           "manufacturer and follow local codes and licensed practice; a turning PM machine has "
-           "voltage at its terminals even with the converter off.")
 
 DQ_SOURCE = ("steady-state dq model of the sinusoidal PM synchronous machine "
              "(amplitude-invariant): "

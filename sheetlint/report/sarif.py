@@ -24,6 +24,7 @@ from urllib.parse import quote
 
 from sheetlint import __version__
 from sheetlint.batch import FileResult, relative
+from sheetlint.cautions import REPORT_CAUTION as CAUTION
 from sheetlint.engine.core import Finding
 
 SARIF_VERSION = "2.1.0"
@@ -31,9 +32,6 @@ SARIF_SCHEMA = ("https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/sche
                 "sarif-schema-2.1.0.json")
 LEVELS = {"error": "error", "warning": "warning", "info": "note"}
 UNREADABLE = "unreadable"
-CAUTION = ("Findings are engineering aids, not approvals: confirm machine and converter ratings "
-           "with the manufacturer; install per local codes and licensed practice; a turning PM "
-           "machine has voltage at its terminals even with the converter off.")
 
 
 def artifact_uri(path: str) -> str:

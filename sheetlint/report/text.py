@@ -3,13 +3,11 @@
 from __future__ import annotations
 
 from sheetlint.batch import FileResult, relative
+from sheetlint.cautions import REPORT_CAUTION as CAUTION
 from sheetlint.engine.run import derived_payload
 from sheetlint.report.json_report import summary
 
 MARK = {"error": "error  ", "warning": "warning", "info": "info   "}
-CAUTION = ("Findings are engineering aids, not approvals: confirm machine and converter ratings "
-           "with the manufacturer; install per local codes and licensed practice; a turning PM "
-           "machine has voltage at its terminals even with the converter off.")
 
 
 def render(results: list[FileResult], show_info: bool = True, show_derived: bool = False,
