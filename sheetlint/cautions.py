@@ -25,3 +25,7 @@ FINDING_CAUTION = ("Engineering aid, not an approval: confirm machine and conver
                    "with the manufacturer and follow local codes and licensed practice; a "
                    "turning PM machine has voltage at its terminals even with the converter "
                    "off.")
+
+#: rules whose warnings concern safety: a report that shows one ends with the cautions
+SAFETY_RULES: tuple[str, ...] = ("overspeed-emf", "voltage-limit", "short-circuit-current",
+                                 "field-weakening-speed")

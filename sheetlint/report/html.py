@@ -29,14 +29,13 @@ from typing import Any
 
 from sheetlint import __version__
 from sheetlint.batch import FileResult, relative
-from sheetlint.cautions import CAUTIONS
+from sheetlint.cautions import CAUTIONS, SAFETY_RULES
 from sheetlint.engine.core import Finding, Known, Sheet
 from sheetlint.engine.run import RecordResult, derived_payload
 from sheetlint.report.json_report import summary
 
 RPM = 2.0 * math.pi / 60.0  # rad/s per r/min
 SQRT2 = math.sqrt(2.0)
-SAFETY_RULES = ("overspeed-emf", "voltage-limit")
 #: Okabe-Ito colours (distinguishable with the common colour-vision deficiencies)
 PALETTE = ("#0072B2", "#D55E00", "#009E73", "#CC79A7", "#E69F00", "#56B4E9", "#000000")
 

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from sheetlint.batch import FileResult, relative
 from sheetlint.cautions import REPORT_CAUTION as CAUTION
+from sheetlint.cautions import SAFETY_RULES
 from sheetlint.engine.run import derived_payload
 from sheetlint.report.json_report import summary
 
@@ -47,7 +48,7 @@ def render(results: list[FileResult], show_info: bool = True, show_derived: bool
                     lines.append(f"           cause: {x.cause}")
                 if x.suppressed is not None:
                     lines.append(f"           suppressed: {x.suppressed}")
-                if x.rule in ("overspeed-emf", "voltage-limit") and x.severity != "info":
+                if x.rule in SAFETY_RULES and x.severity != "info":
                     safety = True
             if show_derived and r.derived:
                 lines.append("  derived:")
