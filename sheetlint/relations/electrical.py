@@ -14,6 +14,12 @@ SQRT3 = math.sqrt(3.0)
 LOSS_PARTS = ("copper", "iron", "friction", "stray")
 
 
+def _resistance_field(sheet: Sheet) -> str:
+    """The hot phase resistance when known; else the stated one (lower: bounds stay valid)."""
+    return "circuit.resistance_hot" if "circuit.resistance_hot" in sheet.values else (
+        "circuit.resistance")
+
+
 @register
 class ElectricalPower(Monomial):
     """Output power is efficiency times the three-phase electrical input power.
@@ -158,8 +164,7 @@ class LossBalance(Relation):
 
     def _copper_bound(self, sheet: Sheet) -> Iterator[Finding]:
         v = sheet.values
-        resistance = "circuit.resistance_hot" if "circuit.resistance_hot" in v else (
-            "circuit.resistance")
+        resistance = _resistance_field(sheet)
         if not sheet.usable(self.rule, "rated.current", resistance, "rated.losses",
                             allow_estimates=True):
             return
@@ -221,8 +226,7 @@ class ResistanceDrop(Relation):
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         v = sheet.values
-        resistance = "circuit.resistance_hot" if "circuit.resistance_hot" in v else (
-            "circuit.resistance")
+        resistance = _resistance_field(sheet)
         if not sheet.usable(self.rule, resistance, "rated.current", "rated.voltage",
                             allow_estimates=True):
             return
