@@ -125,3 +125,19 @@ def test_resistance_given_line_to_line_is_named_by_the_copper_loss_bound(spm_15k
     result = run(data)
     assert any(f.rule == "loss-balance" and "circuit.resistance" in f.fields
                for f in serious(result))
+
+
+def test_resistance_given_line_to_line_as_phase_is_named_with_the_factor_two():
+    # copper loss 3·I²·R (DESIGN.md Bases): a terminal-to-terminal R read as phase doubles it.
+    # Generated machine: copper 3 % of P, iron and friction 1.5 %: doubled copper > total losses
+    from sheetlint.synth import MachineSpec, record
+
+    data = record(MachineSpec(15, 1500, 8, copper_fraction=0.03), "SYN-R")
+    resistance = data["circuit"]["resistance"]
+    resistance.pop("basis")
+    assert not [f for f in serious(run(data)) if f.rule == "loss-balance"]
+    resistance["value"] = round(resistance["value"] * 2, 5)
+    hits = [f for f in serious(run(data)) if f.rule == "loss-balance"]
+    assert hits and "circuit.resistance" in hits[0].fields
+    assert "line-to-line" in (hits[0].cause or "")
+    assert hits[0].severity == "warning"  # the basis was not stated: a reading, not an error
