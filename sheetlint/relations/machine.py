@@ -12,6 +12,7 @@ import functools
 import math
 from collections.abc import Callable, Iterator
 from dataclasses import dataclass, field
+from typing import Any
 
 from sheetlint.cautions import FINDING_CAUTION as CAUTION
 from sheetlint.engine.core import Finding, Relation, Sheet
@@ -153,9 +154,9 @@ def _resistance(sheet: Sheet) -> tuple[float, str | None, str | None, bool, floa
     return 0.0, None, "no resistance given: copper drop neglected", False, 0.0
 
 
-#: one-entry cache: the relations of this module check the same sheet one after another. It
-#: holds the sheet itself, so an identity test cannot be fooled by a recycled id.
-_CACHE: dict[str, object] = {}
+#: cache for one sheet at a time: the relations of this module check the same sheet one after
+#: another. It holds the sheet itself, so an identity test cannot be fooled by a recycled id.
+_CACHE: dict[str, Any] = {"sheet": None, "entries": {}}
 
 
 def model_inputs(sheet: Sheet, rule: str, temperature: str = "hot",
@@ -165,16 +166,15 @@ def model_inputs(sheet: Sheet, rule: str, temperature: str = "hot",
     Values derived by ``rule`` itself are not used (``Sheet.usable``); estimates are used but
     flagged, so that no error is raised on them.
     """
-    key = (rule, temperature, need_inductances, len(sheet.values))
-    if _CACHE.get("sheet") is sheet and _CACHE.get("key") in (
-            key, ("*", temperature, need_inductances, len(sheet.values))):
-        return _CACHE["inputs"]  # type: ignore[return-value]
-    inputs = _model_inputs(sheet, rule, temperature, need_inductances)
-    if not any(k.rule == rule for k in sheet.values.values()):
-        # nothing derived by this rule: the result holds for the module's other rules too
-        key = ("*", temperature, need_inductances, len(sheet.values))
-    _CACHE.update(sheet=sheet, key=key, inputs=inputs)
-    return inputs
+    if _CACHE["sheet"] is not sheet or _CACHE["size"] != len(sheet.values):
+        own_rules = {k.rule for k in sheet.values.values() if k.rule is not None}
+        _CACHE.update(sheet=sheet, size=len(sheet.values), entries={}, own=own_rules)
+    # a rule that derived nothing sees the same inputs as every other such rule
+    key = (rule if rule in _CACHE["own"] else "*", temperature, need_inductances)
+    entries = _CACHE["entries"]
+    if key not in entries:
+        entries[key] = _model_inputs(sheet, rule, temperature, need_inductances)
+    return entries[key]
 
 
 def _model_inputs(sheet: Sheet, rule: str, temperature: str,
