@@ -166,16 +166,23 @@ def diagnose(sheet: Sheet, evaluations: list[Evaluation]) -> dict[int, list[Caus
 
 
 def _reconciles(field: str, factor: float, evaluations: list[Evaluation]) -> list[Evaluation]:
-    """Failing evaluations fixed by dividing ``field`` by ``factor``; [] if any involved fails."""
+    """Failing evaluations fixed by dividing ``field`` by ``factor``; [] if any involved fails.
+
+    A failing relation counts as fixed only when the slip explains most of it: the corrected
+    residual is under a third of the residual it had. Otherwise a wide tolerance would let any
+    factor near the deviation pass for a cause.
+    """
     shift = math.log(factor)
     fixed: list[Evaluation] = []
     for e in evaluations:
         c = (e.coefficients or {}).get(field, 0.0)
         if abs(c) < 1e-9:
             continue
-        corrected = e.residual - c * shift
-        if abs(corrected) > e.tolerance:
+        corrected = abs(e.residual - c * shift)
+        if corrected > e.tolerance:
             return []
         if abs(e.residual) > e.tolerance:
+            if corrected > abs(e.residual) / 3:
+                return []
             fixed.append(e)
     return fixed
