@@ -727,8 +727,8 @@ class FieldWeakeningSpeed(Relation):
                  f"{text(reach_rated)}")
         if reach_peak is not None and peak_i is not None:
             facts += f", at peak current {peak_i.value:.4g} A: {text(reach_peak)}"
-        facts += (f" (magnets at the rated temperature; {limit.how}). {_join(inputs.notes)}"
-                  f"{CAUTION}")
+        facts += f" (magnets at the rated temperature; {limit.how}). {_join(inputs.notes)}"
+        facts = facts.rstrip()
         fields = ["limits.max_speed", "rated.current", *limit.fields, *inputs.fields]
         max_speed = sheet.get("limits.max_speed")
         if max_speed is None or max_speed.value <= 0.0:
@@ -745,7 +745,7 @@ class FieldWeakeningSpeed(Relation):
             lead = (f"The maximum speed {_rpm(max_speed.value)} is beyond the reach of field "
                     f"weakening within the voltage limit.")
         yield sheet.finding(
-            self, "warning", f"{lead} {facts}",
+            self, "warning", f"{lead} {facts} {CAUTION}",
             [*fields, *(["limits.peak_current"] if peak_i is not None else [])],
             expected_text={"limits.max_speed": f"≤ {text(reach_rated)}"},
             actual={"limits.max_speed": max_speed.value},
@@ -965,7 +965,7 @@ class ShortCircuitCurrent(Relation):
         fields = [name, *inputs.fields]
         text = (f"Steady-state short-circuit current ψ/L_d = {i_sc:.4g} A rms (magnets at the "
                 f"rated temperature) against the {name.split('.')[-1].replace('_', ' ')} "
-                f"{reference.value:.4g} A. {_join(inputs.notes)}{CAUTION}")
+                f"{reference.value:.4g} A. {_join(inputs.notes)}")
         if i_sc <= reference.value * (1.0 + margin):
             return
         if name == "rated.current":
@@ -981,6 +981,6 @@ class ShortCircuitCurrent(Relation):
             f"A terminal short circuit at speed drives more current than the "
             f"{name.split('.')[-1].replace('_', ' ')}: the converter's fault path must carry it "
             f"and the stator field opposes the magnets (demagnetisation risk; confirm the "
-            f"magnets' limit with the manufacturer). {text}",
+            f"magnets' limit with the manufacturer). {text}{CAUTION}",
             fields, expected_text={name: f"≥ {i_sc:.4g} A"},
             actual={name: reference.value}, deviation=reference.value / i_sc - 1.0)
