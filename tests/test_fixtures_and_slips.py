@@ -37,6 +37,7 @@ PLANTED = {
     "planted-hp-as-kw.yaml": ("power-torque-speed", "error", "rated.power", "hp"),
     "planted-emf-above-voltage.yaml": ("voltage-margin", "warning", "emf.constant", None),
     "planted-impossible-values.yaml": ("value-range", "error", "machine.poles", None),
+    "planted-class-too-high.yaml": ("efficiency-class", "warning", "rated.efficiency", "IE4"),
 }
 
 

@@ -59,6 +59,8 @@ def main() -> None:
     for name, (spec, model, maker) in CONSISTENT.items():
         data = record(spec, model, maker)
         data["limits"] = {"max_speed": f"{safe_max_speed(spec):g} rpm"}
+        if name == "consistent-ipm-45k-blower.yaml":
+            data["efficiency_class"] = "IE5"
         base[name] = (spec, data)
         _dump(name, data, f"Millbrook Valley water utility bid (invented): {model}.\n"
                           "Consistent demo machine: expect no error and no warning.")
@@ -106,7 +108,17 @@ def main() -> None:
           "rated voltage; maximum speed 2400 rpm takes the back-EMF above the DC link.\n"
           "Expect voltage-margin and overspeed-emf warnings.")
 
-    # 5. An impossible value: odd pole count and efficiency above 100 %
+    # 5. An efficiency class one step too high for the declared efficiency
+    spec = MachineSpec(5.5, 3000, 6, copper_fraction=0.02, iron_fraction=0.045,
+                       friction_fraction=0.01)
+    d = record(spec, "AQ-DP 5.5-30 E", "Aldermoor Drives (invented)")
+    d["efficiency_class"] = "IE5"
+    _dump("planted-class-too-high.yaml", d,
+          "Planted fault: a consistent 5.5 kW machine whose declared efficiency reaches IE4\n"
+          "but claims IE5. Expect an efficiency-class warning (converter-fed: compared with\n"
+          "the IEC 60034-30-1 4-pole limit as an approximation, so at most a warning).")
+
+    # 6. An impossible value: odd pole count and efficiency above 100 %
     spec, data = base["consistent-spm-5k5-dosing-pump.yaml"]
     d = copy.deepcopy(data)
     d["id"] = "AQ-DP 5.5-30 (scan)"
