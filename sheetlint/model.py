@@ -320,7 +320,14 @@ class MachineRecord(BaseModel):
     circuit: Circuit = Field(default_factory=Circuit)
     limits: Limits = Field(default_factory=Limits)
     supply: Supply = Field(default_factory=Supply)
-    efficiency_class: Annotated[EfficiencyClaim | None, BeforeValidator(_claim)] = None
+    efficiency_class: Annotated[
+        EfficiencyClaim | None, BeforeValidator(_claim),
+        WithJsonSchema({"anyOf": [
+            {"type": "string", "description": "claimed class, e.g. 'IE4'"},
+            {"type": "object", "properties": {"value": {"type": "string"},
+                                              "standard": {"type": "string"}},
+             "required": ["value"]},
+            {"type": "null"}]})] = None
     points: list[Point] = Field(default_factory=list)
     suppress: list[Suppression] = Field(
         default_factory=list,
