@@ -174,7 +174,9 @@ def display(path: str, si_value: float, digits: int = 4) -> str:
     if kind.name == "temperature":
         return f"{_sig(si_value - 273.15, digits)} degC"
     value = si_value / kind.display_factor
-    if path.endswith(("efficiency", "power_factor")):
+    if path.endswith("efficiency"):
+        return f"{_sig(value * 100, digits)} %"
+    if path.endswith("power_factor"):
         return _sig(value, digits)
     unit = kind.display_unit
     return f"{_sig(value, digits)} {unit}".rstrip()
