@@ -14,8 +14,9 @@ from functools import cache
 from typing import Any
 
 from sheetlint.engine.core import Finding, Known, Settings, Sheet
-from sheetlint.fields import BASES, FIELDS, KINDS, POINT_FIELDS, spec_for
+from sheetlint.fields import BASES, FIELDS, POINT_FIELDS, spec_for
 from sheetlint.model import SECTIONS, MachineRecord, Measured
+from sheetlint.relations.registry import relation_for
 
 SQRT2 = math.sqrt(2.0)
 SQRT3 = math.sqrt(3.0)
@@ -172,9 +173,7 @@ def _field_names(model_type: type) -> tuple[str, ...]:
 
 def _unknown_field_notes(record: MachineRecord, sheet: Sheet,
                          odd_qualifiers: list[tuple[str, Measured]]) -> list[Finding]:
-    from sheetlint.relations.basics import UnknownFields
-
-    rule = UnknownFields()
+    rule = relation_for("unknown-field")
     out: list[Finding] = []
     sections: list[tuple[str, Any]] = [("", record)]
     sections += [(name, getattr(record, name)) for name in SECTIONS]
@@ -203,8 +202,3 @@ def _unknown_field_notes(record: MachineRecord, sheet: Sheet,
             out.append(sheet.finding(rule, "info", f"qualifier '{q}' of {path} is not part of "
                                      "the schema; kept but not used", (path,)))
     return out
-
-
-def display_kind(path: str) -> str:
-    spec = spec_for(path)
-    return KINDS[spec.kind].display_unit if spec else ""

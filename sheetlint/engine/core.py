@@ -7,10 +7,11 @@ to the given fields (so that a slip on one given field can be traced through der
 
 from __future__ import annotations
 
-import math
 from collections.abc import Callable, Iterator, Mapping
 from dataclasses import dataclass, field
 from typing import Any, ClassVar, Literal
+
+from sheetlint.fields import display
 
 Severity = Literal["error", "warning", "info"]
 SEVERITY_RANK: dict[str, int] = {"info": 0, "warning": 1, "error": 2}
@@ -118,8 +119,8 @@ class Settings:
 class Sheet:
     """The engine's view of one record: known SI values plus non-physical attributes."""
 
-    __slots__ = ("attributes", "derived_by", "findings", "locate", "located", "record_id",
-                 "settings", "values")
+    __slots__ = ("attributes", "findings", "locate", "located", "record_id", "settings",
+                 "values")
 
     def __init__(
         self,
@@ -184,8 +185,6 @@ class Sheet:
         actual_text: Mapping[str, str] | None = None,
     ) -> Finding:
         """Build a finding; SI values in ``expected``/``actual`` are shown in display units."""
-        from sheetlint.fields import display
-
         exp = {k: display(k, v) for k, v in (expected or {}).items()}
         act = {k: display(k, v) for k, v in (actual or {}).items()}
         exp.update(expected_text or {})
@@ -234,17 +233,6 @@ class Relation:
         return iter(())
 
 
-def relative_uncertainty_sum(sheet: Sheet, names: tuple[str, ...] | list[str],
-                             exponents: Mapping[str, float] | None = None) -> float:
-    """Worst-case relative uncertainty of a monomial of ``names`` (exponents default to 1)."""
-    total = 0.0
-    for n in names:
-        k = sheet.values.get(n)
-        if k is not None:
-            total += abs(exponents.get(n, 1.0) if exponents else 1.0) * k.uncertainty
-    return total
-
-
 def combine_sensitivity(parts: Mapping[str, float], sheet: Sheet) -> dict[str, float] | None:
     """Sensitivity of a monomial ``prod(x_i ** a_i)`` to the given fields."""
     out: dict[str, float] = {}
@@ -255,10 +243,3 @@ def combine_sensitivity(parts: Mapping[str, float], sheet: Sheet) -> dict[str, f
         for g, s in k.sensitivity.items():
             out[g] = out.get(g, 0.0) + exponent * s
     return {g: s for g, s in out.items() if abs(s) > 1e-12}
-
-
-def log_ratio(actual: float, expected: float) -> float:
-    """ln(actual/expected), or inf when either is not positive."""
-    if actual <= 0.0 or expected <= 0.0:
-        return math.inf
-    return math.log(actual / expected)

@@ -29,7 +29,7 @@ from sheetlint.engine.monomial import Evaluation, Monomial
 from sheetlint.fields import KINDS, spec_for
 from sheetlint.intake.records import RawRecord
 from sheetlint.model import MachineRecord
-from sheetlint.relations.registry import all_relations
+from sheetlint.relations.registry import all_relations, relation_for
 
 MAX_DERIVE_ROUNDS = 12
 
@@ -131,7 +131,7 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
                index: int | None = None) -> RecordResult:
     settings = settings or Settings()
     sheet, notes = build_sheet(record, settings, locate)
-    relations = [r for r in all_relations()]
+    relations = all_relations()
     findings: list[Finding] = list(notes)
     for relation in relations:
         screen = getattr(relation, "screen", None)
@@ -277,9 +277,7 @@ def _apply_suppressions(sheet: Sheet, findings: list[Finding]) -> None:
                 f.suppressed = reason
                 used.add(i)
                 break
-    from sheetlint.relations.basics import UnusedSuppression
-
-    marker = UnusedSuppression()
+    marker = relation_for("unused-suppression")
     for i, (rule, _reason, _field) in enumerate(entries):
         if i not in used:
             findings.append(sheet.finding(marker, "info", f"suppression of '{rule}' no longer "

@@ -14,6 +14,7 @@ R = TypeVar("R", bound=type[Relation])
 
 _RELATIONS: dict[str, Relation] = {}
 _ORDER: list[Relation] = []
+_SORTED: list[Relation] = []  # _ORDER sorted by ``order``; rebuilt when a relation registers
 
 
 def register(cls: R) -> R:
@@ -22,6 +23,7 @@ def register(cls: R) -> R:
     # several relation objects may share one rule id (e.g. per-point variants); keep all
     _ORDER.append(instance)
     _RELATIONS.setdefault(cls.rule, instance)
+    _SORTED.clear()
     return cls
 
 
@@ -29,7 +31,9 @@ def all_relations() -> list[Relation]:
     """Every registered relation, in a stable order (``order`` then registration)."""
     from sheetlint import relations  # noqa: F401  (imports the family modules)
 
-    return sorted(_ORDER, key=lambda r: r.order)
+    if not _SORTED:
+        _SORTED.extend(sorted(_ORDER, key=lambda r: r.order))
+    return list(_SORTED)
 
 
 def relation_for(rule: str) -> Relation | None:
