@@ -17,8 +17,6 @@ from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, WithJsonSche
 from sheetlint.fields import BASES, FIELDS, POINT_FIELDS
 from sheetlint.units import Reading, UnitProblem, read_value
 
-ZERO_CELSIUS = 273.15
-
 
 @dataclass(slots=True)
 class Measured:

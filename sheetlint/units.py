@@ -26,6 +26,8 @@ RPM = TWO_PI / 60.0  # rad/s per r/min
 HP = 745.69987158227022  # W, 550 ft·lbf/s (NIST SP 811, App. B)
 LBF_FT = 1.3558179483314004  # N·m (NIST SP 811, App. B)
 ZERO_CELSIUS = 273.15
+#: 20 °C in kelvin: the reference temperature of R and back-EMF when a sheet states none
+ROOM_TEMPERATURE = 293.15
 #: longest number text read (a longer one is refused, never parsed: its exponent alone could
 #: exceed Python's limit on integer digits)
 MAX_NUMBER_CHARS = 100

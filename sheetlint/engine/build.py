@@ -17,10 +17,10 @@ from sheetlint.engine.core import Finding, Known, Settings, Sheet
 from sheetlint.fields import BASES, FIELDS, POINT_FIELDS, spec_for
 from sheetlint.model import SECTIONS, MachineRecord, Measured
 from sheetlint.relations.registry import relation_for
+from sheetlint.units import ROOM_TEMPERATURE as ROOM
 
 SQRT2 = math.sqrt(2.0)
 SQRT3 = math.sqrt(3.0)
-ROOM = 293.15  # 20 °C, the default reference temperature of R and of the back-EMF
 
 #: value in the stated basis × factor = value in the canonical basis
 BASIS_FACTOR: dict[str, dict[str, float]] = {

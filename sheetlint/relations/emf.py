@@ -9,9 +9,9 @@ from sheetlint.engine.core import Derivation, Finding, Relation, Sheet
 from sheetlint.engine.monomial import Evaluation, Monomial
 from sheetlint.physics.magnets import remanence_factor
 from sheetlint.relations.registry import register
+from sheetlint.units import ROOM_TEMPERATURE as ROOM
 
 SQRT3 = math.sqrt(3.0)
-ROOM = 293.15
 USUAL_MARGIN = 0.065  # common practice: rated voltage 6–7 % above the hot back-EMF
 
 

@@ -36,9 +36,7 @@ from sheetlint.physics.dq import (
 from sheetlint.physics.magnets import remanence_factor
 from sheetlint.relations.registry import register
 from sheetlint.standards.tolerances import power_factor_tolerance
-
-ROOM = 293.15  # K, 20 °C: the reference temperature assumed when a sheet states none
-
+from sheetlint.units import ROOM_TEMPERATURE as ROOM
 
 DQ_SOURCE = ("steady-state dq model of the sinusoidal PM synchronous machine "
              "(amplitude-invariant): "
