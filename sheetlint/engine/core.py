@@ -21,26 +21,63 @@ DERIVED = "derived"
 ESTIMATE = "estimate"
 
 
-@dataclass(slots=True)
+#: a value's dependence on other known values: ((known, exponent), ...) for a monomial
+Sources = tuple[tuple["Known", float], ...]
+
+_PENDING: Any = object()  # sensitivity not resolved yet
+
+
 class Known:
     """One known quantity of a sheet, in SI units.
 
     ``uncertainty`` is relative (0.005 = ±0.5 %). ``sensitivity`` maps given fields to the
     exponent with which this value depends on them (``{"rated.power": 1.0, "rated.speed": -1.0}``
-    for a torque derived from P/ω); ``None`` where the dependence is not a monomial.
+    for a torque derived from P/ω); ``None`` where the dependence is not a monomial. A derived
+    value states its ``sources`` instead and its sensitivity is resolved from them when first
+    asked for: only the cause diagnosis of a failing relation needs it.
     """
 
-    value: float
-    uncertainty: float = 0.0
-    origin: str = GIVEN
-    rule: str | None = None
-    inputs: tuple[str, ...] = ()
-    basis: str | None = None
-    basis_stated: bool = False
-    temperature: float | None = None  # reference temperature of the value, kelvin
-    text: str | None = None
-    note: str | None = None
-    sensitivity: dict[str, float] | None = None
+    __slots__ = ("_sensitivity", "basis", "basis_stated", "inputs", "note", "origin", "rule",
+                 "sources", "temperature", "text", "uncertainty", "value")
+
+    def __init__(
+        self,
+        value: float,
+        uncertainty: float = 0.0,
+        origin: str = "given",
+        rule: str | None = None,
+        inputs: tuple[str, ...] = (),
+        basis: str | None = None,
+        basis_stated: bool = False,
+        temperature: float | None = None,  # reference temperature of the value, kelvin
+        text: str | None = None,
+        note: str | None = None,
+        sensitivity: dict[str, float] | None = None,
+        sources: Sources | None = None,
+    ) -> None:
+        self.value = value
+        self.uncertainty = uncertainty
+        self.origin = origin
+        self.rule = rule
+        self.inputs = inputs
+        self.basis = basis
+        self.basis_stated = basis_stated
+        self.temperature = temperature
+        self.text = text
+        self.note = note
+        self.sources = sources
+        self._sensitivity = _PENDING if sources is not None else sensitivity
+
+    @property
+    def sensitivity(self) -> dict[str, float] | None:
+        found = self._sensitivity
+        if found is _PENDING:
+            found = self._sensitivity = resolve_sensitivity(self.sources or ())
+        return found
+
+    @sensitivity.setter
+    def sensitivity(self, value: dict[str, float] | None) -> None:
+        self._sensitivity = value
 
     @property
     def is_estimate(self) -> bool:
@@ -49,6 +86,22 @@ class Known:
     @property
     def is_given(self) -> bool:
         return self.origin == GIVEN
+
+    def __repr__(self) -> str:
+        return (f"Known({self.value!r}, {self.uncertainty!r}, {self.origin!r}, rule={self.rule!r}"
+                f", basis={self.basis!r}, temperature={self.temperature!r})")
+
+
+def resolve_sensitivity(sources: Sources) -> dict[str, float] | None:
+    """Sensitivity of ``prod(known_i ** a_i)`` to the given fields; None if one is unknown."""
+    out: dict[str, float] = {}
+    for known, exponent in sources:
+        inner = known.sensitivity
+        if inner is None:
+            return None
+        for g, s in inner.items():
+            out[g] = out.get(g, 0.0) + exponent * s
+    return {g: s for g, s in out.items() if abs(s) > 1e-12}
 
 
 @dataclass(slots=True)
@@ -63,6 +116,7 @@ class Derivation:
     note: str | None = None
     sensitivity: dict[str, float] | None = None
     temperature: float | None = None  # kelvin, reference temperature of the derived value
+    sources: Sources | None = None  # instead of ``sensitivity``: resolved when needed
 
 
 @dataclass(slots=True)
@@ -233,13 +287,13 @@ class Relation:
         return iter(())
 
 
-def combine_sensitivity(parts: Mapping[str, float], sheet: Sheet) -> dict[str, float] | None:
-    """Sensitivity of a monomial ``prod(x_i ** a_i)`` to the given fields."""
-    out: dict[str, float] = {}
+def sources_of(parts: Mapping[str, float], sheet: Sheet) -> Sources | None:
+    """The known values of ``parts`` with their exponents, for a derived value's ``sources``."""
+    values = sheet.values
+    out = []
     for name, exponent in parts.items():
-        k = sheet.values.get(name)
-        if k is None or k.sensitivity is None:
+        known = values.get(name)
+        if known is None:
             return None
-        for g, s in k.sensitivity.items():
-            out[g] = out.get(g, 0.0) + exponent * s
-    return {g: s for g, s in out.items() if abs(s) > 1e-12}
+        out.append((known, exponent))
+    return tuple(out)

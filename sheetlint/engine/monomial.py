@@ -13,15 +13,18 @@ import copy
 import math
 from collections.abc import Iterator
 from dataclasses import dataclass
-from typing import ClassVar
+from typing import Any, ClassVar
 
 from sheetlint.engine.core import (
+    ESTIMATE,
     Derivation,
     Finding,
     Relation,
     Sheet,
-    combine_sensitivity,
+    Sources,
 )
+
+_PENDING: Any = object()  # coefficients not resolved yet
 
 
 @dataclass(slots=True)
@@ -32,8 +35,29 @@ class Evaluation:
     fields: tuple[str, ...]
     residual: float  # ln(actual/expected) of the reported field, scaled to exponent 1
     tolerance: float  # allowed |residual|
-    coefficients: dict[str, float] | None  # d residual / d ln(given field)
+    sources: Sources = ()  # (known value, exponent) of each term
+    scale: float = 1.0  # exponent of the reported field
     finding: Finding | None = None
+    _coefficients: Any = _PENDING
+
+    @property
+    def coefficients(self) -> dict[str, float] | None:
+        """d residual / d ln(given field); None where a term's dependence is not a monomial.
+
+        Resolved when first asked for: only the cause diagnosis of a failing sheet needs it.
+        """
+        found = self._coefficients
+        if found is _PENDING:
+            found = {}
+            for known, exponent in self.sources:
+                sensitivity = known.sensitivity
+                if sensitivity is None:
+                    found = None
+                    break
+                for g, s in sensitivity.items():
+                    found[g] = found.get(g, 0.0) + exponent * s / self.scale
+            self._coefficients = found
+        return found
 
 
 class Monomial(Relation):
@@ -48,15 +72,19 @@ class Monomial(Relation):
     #: may check with estimated inputs; the finding is then at most a warning
     allow_estimates: ClassVar[bool] = False
     prefix: str = "rated."
+    #: (prefix, term items, fields it may derive) of this variant, built on first use
+    _plan: tuple[str, tuple[tuple[str, float], ...], frozenset[str] | None] | None = None
 
-    def variants(self, sheet: Sheet) -> Iterator[Monomial]:
+    def variants(self, sheet: Sheet) -> list[Monomial]:
         """This relation, and one copy per operating point when ``per_point``."""
-        yield self
-        if self.per_point:
-            for i in range(sheet.attributes.get("points.count", 0)):
-                clone = copy.copy(self)
-                clone.prefix = f"points[{i}]."
-                yield clone
+        if not self.per_point:
+            return [self]
+        out = [self]
+        for i in range(sheet.attributes.get("points.count", 0)):
+            clone = copy.copy(self)
+            clone.prefix = f"points[{i}]."
+            out.append(clone)
+        return out
 
     def at(self, name: str) -> str:
         """A ``rated.`` field name read at this variant's operating point."""
@@ -80,22 +108,41 @@ class Monomial(Relation):
             return self.terms
         return {self.at(n): e for n, e in self.terms.items()}
 
+    def _variant_plan(self) -> tuple[str, tuple[tuple[str, float], ...], frozenset[str] | None]:
+        plan = self._plan
+        if plan is None or plan[0] != self.prefix:
+            targets = (None if self.derive_fields is None
+                       else frozenset(self.at(f) for f in self.derive_fields))
+            plan = self._plan = (self.prefix, tuple((self.at(n), e)
+                                                    for n, e in self.terms.items()), targets)
+        return plan
+
+    def term_items(self, sheet: Sheet) -> tuple[tuple[str, float], ...]:
+        """(field, exponent) of each term at this variant's point."""
+        if type(self).field_names is Monomial.field_names:
+            return self._variant_plan()[1]
+        return tuple(self.field_names(sheet).items())
+
     # --- derive -----------------------------------------------------------------------------
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
         for variant in self.variants(sheet):
             yield from variant.derive_one(sheet)
 
     def derive_one(self, sheet: Sheet) -> Iterator[Derivation]:
-        if not self.applies(sheet):
-            return
-        terms = self.field_names(sheet)
         values = sheet.values
-        missing = [f for f in terms if f not in values]
-        if len(missing) != 1:
+        items = self.term_items(sheet)
+        target = None
+        for name, _ in items:
+            if name not in values:
+                if target is not None:
+                    return
+                target = name
+        if target is None:
             return
-        target = missing[0]
-        if self.derive_fields is not None and self.at(target) not in [
-                self.at(f) for f in self.derive_fields]:
+        targets = self._variant_plan()[2]
+        if targets is not None and self.at(target) not in targets:
+            return
+        if not self.applies(sheet):
             return
         constant = self.constant(sheet)
         if constant is None or constant <= 0:
@@ -103,52 +150,55 @@ class Monomial(Relation):
         log_sum = math.log(constant)
         uncertainty = 0.0
         estimate = False
-        for name, exponent in terms.items():
+        a = 1.0
+        sources = []
+        for name, exponent in items:
             if name == target:
+                a = exponent
                 continue
             k = values[name]
             if k.value <= 0:
                 return
             log_sum -= exponent * math.log(k.value)
             uncertainty += abs(exponent) * k.uncertainty
-            estimate = estimate or k.is_estimate
-        a = terms[target]
-        value = math.exp(log_sum / a)
-        others = {n: -e / a for n, e in terms.items() if n != target}
-        yield Derivation(target, value, uncertainty / abs(a),
-                         tuple(n for n in terms if n != target), estimate=estimate,
-                         sensitivity=combine_sensitivity(others, sheet))
+            estimate = estimate or k.origin == ESTIMATE
+            sources.append((k, exponent))
+        yield Derivation(target, math.exp(log_sum / a), uncertainty / abs(a),
+                         tuple(n for n, _ in items if n != target), estimate=estimate,
+                         sources=tuple((k, -e / a) for k, e in sources))
 
     # --- check ------------------------------------------------------------------------------
     def evaluate(self, sheet: Sheet) -> Evaluation | None:
         """The residual of this relation on the sheet, or None when it cannot be checked."""
         if not self.applies(sheet):
             return None
-        terms = self.field_names(sheet)
-        if not sheet.usable(self.rule, *terms, allow_estimates=self.allow_estimates):
-            return None
+        items = self.term_items(sheet)
+        values = sheet.values
+        rule = self.rule
+        allow_estimates = self.allow_estimates
+        knowns = []
+        for name, _ in items:
+            k = values.get(name)
+            if k is None or k.rule == rule or (k.origin == ESTIMATE and not allow_estimates):
+                return None
+            knowns.append(k)
         constant = self.constant(sheet)
         if constant is None or constant <= 0:
             return None
         reported = self.reported_field(sheet)
-        a0 = terms[reported]
+        a0 = 0.0
         log_residual = -math.log(constant)
         tolerance = 0.0
-        coefficients: dict[str, float] | None = {}
-        for name, exponent in terms.items():
-            k = sheet.values[name]
+        for (name, exponent), k in zip(items, knowns, strict=True):
             if k.value <= 0:
                 return None
+            if name == reported:
+                a0 = exponent
             log_residual += exponent * math.log(k.value)
             tolerance += abs(exponent) * k.uncertainty
-            if coefficients is not None:
-                if k.sensitivity is None:
-                    coefficients = None
-                else:
-                    for g, s in k.sensitivity.items():
-                        coefficients[g] = coefficients.get(g, 0.0) + exponent * s / a0
         tolerance = tolerance / abs(a0) + self.allowance(sheet)
-        return Evaluation(self, tuple(terms), log_residual / a0, tolerance, coefficients)
+        return Evaluation(self, tuple(n for n, _ in items), log_residual / a0, tolerance,
+                          tuple((k, e) for k, (_, e) in zip(knowns, items, strict=True)), a0)
 
     def reported_field(self, sheet: Sheet) -> str:
         return self.at(self.reported)

@@ -203,7 +203,7 @@ def derive(sheet: Sheet, relations: list[Any]) -> None:
                 values[d.field] = Known(
                     d.value, d.uncertainty, ESTIMATE if d.estimate else DERIVED, relation.rule,
                     d.inputs, note=d.note, sensitivity=d.sensitivity,
-                    temperature=d.temperature)
+                    temperature=d.temperature, sources=d.sources)
                 added.append(d.field)
         if len(added) == before:
             return

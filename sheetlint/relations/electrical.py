@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 from collections.abc import Iterator
 
-from sheetlint.engine.core import Derivation, Finding, Relation, Sheet, combine_sensitivity
+from sheetlint.engine.core import Derivation, Finding, Relation, Sheet
 from sheetlint.engine.monomial import Monomial
 from sheetlint.relations.registry import register
 from sheetlint.standards.tolerances import efficiency_tolerance, power_factor_tolerance
@@ -127,8 +127,7 @@ class LossBalance(Relation):
                              2 * i.uncertainty + r.uncertainty,
                              ("rated.current", "circuit.resistance_hot"),
                              estimate=i.is_estimate or r.is_estimate,
-                             sensitivity=combine_sensitivity(
-                                 {"rated.current": 2.0, "circuit.resistance_hot": 1.0}, sheet))
+                             sources=((i, 2.0), (r, 1.0)))
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         v = sheet.values

@@ -61,7 +61,7 @@ class MagnetTemperature(Relation):
                              ("emf.constant", "rated.magnet_temperature"),
                              estimate=ke.is_estimate or hot.is_estimate,
                              note=f"{magnet} at {hot.value - 273.15:.0f} °C",
-                             sensitivity=ke.sensitivity, temperature=hot.value)
+                             sources=((ke, 1.0),), temperature=hot.value)
         if "emf.constant_cold" not in v:
             cold = v.get("machine.ambient.min")
             t_cold = cold.value if cold else ROOM
@@ -70,7 +70,7 @@ class MagnetTemperature(Relation):
                     + ("" if cold else " (no lowest ambient given: 20 °C assumed)"))
             yield Derivation("emf.constant_cold", ke.value * factor, ke.uncertainty,
                              ("emf.constant",), estimate=ke.is_estimate, note=note,
-                             sensitivity=ke.sensitivity, temperature=t_cold)
+                             sources=((ke, 1.0),), temperature=t_cold)
 
 
 @register
@@ -195,7 +195,7 @@ class TorqueConstant(Monomial):
             yield Derivation("torque_constant", SQRT3 * ke.value, ke.uncertainty,
                              ("emf.constant",), estimate=ke.is_estimate,
                              note=f"at {(ke.temperature or ROOM) - 273.15:.0f} °C",
-                             sensitivity=ke.sensitivity)
+                             sources=((ke, 1.0),))
         elif "emf.constant" not in v and "torque_constant" in v:
             kt = v["torque_constant"]
             factor = 1.0
@@ -205,7 +205,7 @@ class TorqueConstant(Monomial):
                              ("torque_constant",), estimate=kt.is_estimate,
                              note="at 20 °C" if kt.temperature is not None
                              else "Kt's magnet temperature unstated: taken as 20 °C",
-                             sensitivity=kt.sensitivity)
+                             sources=((kt, 1.0),))
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         yield from super().check(sheet)

@@ -10,7 +10,7 @@ from __future__ import annotations
 import math
 from collections.abc import Iterator
 
-from sheetlint.engine.core import Derivation, Finding, Relation, Sheet, combine_sensitivity
+from sheetlint.engine.core import Derivation, Finding, Relation, Sheet
 from sheetlint.relations.registry import register
 from sheetlint.standards.efficiency import (
     CONVERTER_FED_SOURCE,
@@ -166,7 +166,7 @@ class TemperatureRise(Relation):
         return Derivation(
             "circuit.resistance_hot", value, uncertainty, inputs, estimate=estimate,
             note=f"{conductor} (k = {k:g}), from {t1:.4g} degC to {where}",
-            sensitivity=combine_sensitivity({"circuit.resistance": 1.0}, sheet))
+            sources=((resistance, 1.0),))
 
     # --- check ----------------------------------------------------------------------------
     def check(self, sheet: Sheet) -> Iterator[Finding]:
