@@ -13,7 +13,7 @@ import math
 from functools import cache
 from typing import Any
 
-from sheetlint.engine.core import Finding, Known, Settings, Sheet
+from sheetlint.engine.core import GIVEN, Finding, Known, Settings, Sheet
 from sheetlint.fields import BASES, FIELDS, POINT_FIELDS, spec_for
 from sheetlint.model import SECTIONS, MachineRecord, Measured
 from sheetlint.relations.registry import relation_for
@@ -67,15 +67,25 @@ def _known(path: str, m: Measured, temperature: float | None = None) -> Known:
     factors, default = _basis_plan(path)
     basis = m.basis
     reading = m.reading
-    factor = factors[basis or default] if factors is not None else 1.0  # type: ignore[index]
+    if factors is None:
+        factor = 1.0
+    elif basis is None:
+        factor = factors[default]  # type: ignore[index]
+    else:
+        factor = factors[basis]
+    unit = reading.unit
     return Known(
         reading.value * factor,
         reading.uncertainty,
-        basis=basis or default,
-        basis_stated=basis is not None,
-        temperature=temperature if temperature is not None else m.temperature,
-        text=f"{reading.text} {reading.unit}".strip(),
-        sensitivity={path: 1.0},
+        GIVEN,
+        None,
+        (),
+        basis or default,
+        basis is not None,
+        temperature if temperature is not None else m.temperature,
+        f"{reading.text} {unit}" if unit else reading.text,
+        None,
+        {path: 1.0},
     )
 
 

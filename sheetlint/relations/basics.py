@@ -2,7 +2,8 @@
 
 from __future__ import annotations
 
-from collections.abc import Iterator
+import functools
+from collections.abc import Callable, Iterator
 
 from sheetlint.engine.core import Finding, Relation, Sheet
 from sheetlint.fields import display, spec_for
@@ -47,12 +48,11 @@ class ValueRange(Relation):
     order = 0
 
     def screen(self, sheet: Sheet) -> Iterator[Finding]:
-        for path in list(sheet.values):
-            known = sheet.values[path]
-            problem = self._problem(path, known.value)
-            if problem is None:
-                continue
-            del sheet.values[path]
+        values = sheet.values
+        bad = [(path, problem) for path, known in values.items()
+               if (problem := _range_test(path)(known.value)) is not None]
+        for path, problem in bad:
+            known = values.pop(path)
             yield sheet.finding(self, "error",
                                 f"{path} = {known.text or display(path, known.value)}: "
                                 f"{problem}; the value is left out of all other checks", (path,))
@@ -62,42 +62,76 @@ class ValueRange(Relation):
                 yield sheet.finding(self, "warning", f"{name} '{cls}' is not an IEC 60085 "
                                     "thermal class (130/B, 155/F, 180/H, ...)", (name,))
 
-    @staticmethod
-    def _problem(path: str, value: float) -> str | None:
-        spec = spec_for(path)
-        kind = spec.kind if spec else "ratio"
-        if path.endswith("efficiency"):
-            if not 0.0 < value < 1.0:
-                return "efficiency must lie between 0 and 100 % (exclusive)"
-            return None
-        if path.endswith("power_factor"):
-            if not 0.0 < value <= 1.0:
-                return "power factor must lie in (0, 1]"
-            return None
-        if path == "machine.poles":
-            if value < 2 or value != int(value) or int(value) % 2:
-                return "a pole count must be an even integer of at least 2"
-            return None
-        if path in ("machine.pole_pairs", "machine.phases"):
-            if value < 1 or value != int(value):
-                return "must be a positive integer"
-            return None
-        if kind == "temperature":
-            if value <= 0.0:
-                return "below absolute zero"
-            if "magnet_temperature" in path and value > HIGHEST_MAGNET_TEMPERATURE:
-                return "above the Curie temperature of every magnet material"
-            return None
-        if path == "machine.altitude" or path.startswith("rated.losses."):
-            return "must not be negative" if value < 0.0 else None
-        if kind == "temperature_difference":
-            return "must not be negative" if value < 0.0 else None
-        if value <= 0.0:
-            return "must be positive"
-        low, high = MAGNITUDE_ENVELOPE
-        if not low <= value <= high:
-            return "far outside the range of any electrical machine"
-        return None
+
+def _efficiency(value: float) -> str | None:
+    if not 0.0 < value < 1.0:
+        return "efficiency must lie between 0 and 100 % (exclusive)"
+    return None
+
+
+def _power_factor(value: float) -> str | None:
+    if not 0.0 < value <= 1.0:
+        return "power factor must lie in (0, 1]"
+    return None
+
+
+def _pole_count(value: float) -> str | None:
+    if value < 2 or value != int(value) or int(value) % 2:
+        return "a pole count must be an even integer of at least 2"
+    return None
+
+
+def _positive_integer(value: float) -> str | None:
+    if value < 1 or value != int(value):
+        return "must be a positive integer"
+    return None
+
+
+def _temperature(value: float) -> str | None:
+    return "below absolute zero" if value <= 0.0 else None
+
+
+def _magnet_temperature(value: float) -> str | None:
+    if value <= 0.0:
+        return "below absolute zero"
+    if value > HIGHEST_MAGNET_TEMPERATURE:
+        return "above the Curie temperature of every magnet material"
+    return None
+
+
+def _not_negative(value: float) -> str | None:
+    return "must not be negative" if value < 0.0 else None
+
+
+def _magnitude(value: float) -> str | None:
+    if value <= 0.0:
+        return "must be positive"
+    low, high = MAGNITUDE_ENVELOPE
+    if not low <= value <= high:
+        return "far outside the range of any electrical machine"
+    return None
+
+
+@functools.cache
+def _range_test(path: str) -> Callable[[float], str | None]:
+    """The test of physically possible values for a field path (chosen once per path)."""
+    spec = spec_for(path)
+    kind = spec.kind if spec else "ratio"
+    if path.endswith("efficiency"):
+        return _efficiency
+    if path.endswith("power_factor"):
+        return _power_factor
+    if path == "machine.poles":
+        return _pole_count
+    if path in ("machine.pole_pairs", "machine.phases"):
+        return _positive_integer
+    if kind == "temperature":
+        return _magnet_temperature if "magnet_temperature" in path else _temperature
+    if path == "machine.altitude" or path.startswith("rated.losses."):
+        return _not_negative
+    if kind == "temperature_difference":
+        return _not_negative
+    return _magnitude
 
 
 @register

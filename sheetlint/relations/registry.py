@@ -29,15 +29,19 @@ def register(cls: R) -> R:
 
 def all_relations() -> list[Relation]:
     """Every registered relation, in a stable order (``order`` then registration)."""
-    from sheetlint import relations  # noqa: F401  (imports the family modules)
+    return list(_sorted_relations())
 
+
+def _sorted_relations() -> list[Relation]:
     if not _SORTED:
+        from sheetlint import relations  # noqa: F401  (imports the family modules)
+
         _SORTED.extend(sorted(_ORDER, key=lambda r: r.order))
-    return list(_SORTED)
+    return _SORTED
 
 
 def relation_for(rule: str) -> Relation | None:
-    all_relations()
+    _sorted_relations()
     return _RELATIONS.get(rule)
 
 
