@@ -279,6 +279,10 @@ class Relation:
     #: the fields ``derive`` reads; the engine calls it again only when one of them appears.
     #: None (the default) means unknown: called in every round.
     derive_inputs: ClassVar[tuple[str, ...] | None] = None
+    #: the fields ``derive`` can fill in (``rated.`` names stand for every point's too); the
+    #: engine skips the call when all are known. None (the default) means unknown: always called.
+    #: A monomial with the standard ``derive`` gets its ``derive_fields`` (or terms) here.
+    derive_outputs: ClassVar[tuple[str, ...] | None] = None
 
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
         return iter(())

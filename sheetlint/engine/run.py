@@ -177,21 +177,27 @@ def derive(sheet: Sheet, relations: list[Any]) -> None:
     """Run the relations' ``derive`` until no new value appears (a fixed point).
 
     A relation is called again only when a field it reads (``derive_inputs``) appeared since
-    its last call; relations that declare no inputs are called every round.
+    its last call; relations that declare no inputs are called every round. A relation whose
+    ``derive_outputs`` are all known already is not called (with operating points listed, a
+    per-point relation always is).
     """
     values = sheet.values
+    keys = values.keys()
     plan = _derive_plan(tuple(relations))
+    has_points = bool(sheet.attributes.get("points.count"))
     added: list[str] = []
     seen = [-1] * len(plan)  # position in ``added`` at each relation's last call
     for _ in range(MAX_DERIVE_ROUNDS):
         before = len(added)
-        for index, (relation, inputs, per_point) in enumerate(plan):
+        for index, (relation, inputs, outputs, per_point) in enumerate(plan):
             last = seen[index]
             if last >= 0 and inputs is not None:
                 fresh = added[last:]
                 if inputs.isdisjoint(fresh) and not (
                         per_point and any(f.startswith("points[") for f in fresh)):
                     continue
+            if outputs is not None and keys >= outputs and not (per_point and has_points):
+                continue
             seen[index] = len(added)
             try:
                 derivations = list(relation.derive(sheet))
@@ -226,18 +232,28 @@ def _estimate(sheet: Sheet, relations: list[Any]) -> None:
                                         d.inputs, note=d.note)
 
 
+DerivePlan = list[tuple[Any, frozenset[str] | None, frozenset[str] | None, bool]]
+
+
 @cache
-def _derive_plan(relations: tuple[Any, ...]) -> list[tuple[Any, frozenset[str] | None, bool]]:
-    """The relations that derive anything, with the fields they read (None: unknown)."""
-    plan = []
+def _derive_plan(relations: tuple[Any, ...]) -> DerivePlan:
+    """The relations that derive anything, with the fields they read and fill (None: unknown)."""
+    plan: DerivePlan = []
     for relation in relations:
         if type(relation).derive is Relation.derive:
             continue
         inputs = getattr(relation, "derive_inputs", None)
-        if inputs is None and isinstance(relation, Monomial) and (
-                type(relation).derive is Monomial.derive):
-            inputs = tuple(relation.terms)
+        outputs = getattr(relation, "derive_outputs", None)
+        if isinstance(relation, Monomial) and type(relation).derive is Monomial.derive:
+            if inputs is None:
+                inputs = tuple(relation.terms)
+            if outputs is None:
+                outputs = (relation.derive_fields if relation.derive_fields is not None
+                           else tuple(relation.terms))
+        if outputs is not None and not outputs:
+            continue  # fills nothing
         plan.append((relation, frozenset(inputs) if inputs is not None else None,
+                     frozenset(outputs) if outputs is not None else None,
                      bool(getattr(relation, "per_point", False))))
     return plan
 

@@ -99,6 +99,7 @@ class LossBalance(Relation):
     order = 14
     derive_inputs = ("rated.power", "rated.efficiency", "rated.losses", "rated.current",
                      "circuit.resistance_hot", "rated.losses.copper")
+    derive_outputs = ("rated.losses", "rated.efficiency", "rated.power", "rated.losses.copper")
 
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
         v = sheet.values

@@ -45,6 +45,7 @@ class MagnetTemperature(Relation):
     order = 30
     derive_inputs = ("emf.constant", "rated.magnet_temperature", "machine.ambient.min",
                      "emf.constant_hot", "emf.constant_cold")
+    derive_outputs = ("emf.constant_hot", "emf.constant_cold")
 
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
         v = sheet.values
@@ -151,6 +152,7 @@ class TorqueConstant(Monomial):
     source = "Krishnan, Permanent Magnet Synchronous and Brushless DC Motor Drives (CRC 2010)"
     order = 21
     derive_inputs = ("torque_constant", "emf.constant")
+    derive_outputs = ("torque_constant", "emf.constant")
 
     def constant(self, sheet: Sheet) -> float | None:
         stated = _kt_temperature_factor(sheet)

@@ -104,6 +104,7 @@ class SynchronousSpeed(Monomial):
     per_point = True
     derive_fields = ("rated.speed", "rated.frequency")
     derive_inputs = ("rated.speed", "rated.frequency", "machine.pole_pairs", "machine.poles")
+    derive_outputs = ("rated.speed", "rated.frequency", "machine.pole_pairs")
     order = 10
 
     def constant(self, sheet: Sheet) -> float:

@@ -107,6 +107,7 @@ class TemperatureRise(Relation):
     order = 20
     derive_inputs = ("circuit.resistance", "circuit.resistance_hot", "rated.temperature_rise",
                      "machine.ambient", "rated.magnet_temperature")
+    derive_outputs = ("circuit.resistance_hot", "rated.magnet_temperature")
 
     # --- derive ---------------------------------------------------------------------------
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:

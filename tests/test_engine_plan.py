@@ -1,0 +1,91 @@
+"""The engine's shortcuts change no result.
+
+The derive loop skips a relation whose declared ``derive_outputs`` are all known. These tests
+run the loop with and without that shortcut on generated machines with fields left out (so
+that every derivation path is taken) and demand the same values, and check that no relation
+fills a field it did not declare.
+"""
+
+from __future__ import annotations
+
+import copy
+import re
+
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from sheetlint.engine import run as engine_run
+from sheetlint.engine.build import build_sheet
+from sheetlint.engine.core import Settings
+from sheetlint.model import MachineRecord
+from sheetlint.relations.registry import all_relations
+from sheetlint.synth import MachineSpec, record
+
+machines = st.builds(
+    MachineSpec,
+    power_kw=st.sampled_from([1.5, 5.5, 45, 160]),
+    speed_rpm=st.sampled_from([750, 1500, 3000]),
+    poles=st.sampled_from([4, 8, 10]),
+    topology=st.sampled_from(["spm", "ipm"]),
+)
+#: fields a sheet may leave out, so that relations have something to derive
+OPTIONAL = [("rated", "torque"), ("rated", "power"), ("rated", "frequency"),
+            ("rated", "efficiency"), ("rated", "losses"), ("rated", "magnet_temperature"),
+            ("machine", "poles"), ("emf", "constant"), ("circuit", "resistance")]
+
+
+def _sheet(data: dict) -> object:
+    sheet, _ = build_sheet(MachineRecord.model_validate(copy.deepcopy(data)), Settings())
+    return sheet
+
+
+def _snapshot(sheet: object) -> dict[str, tuple]:
+    return {name: (k.value, k.uncertainty, k.origin, k.rule, k.inputs)
+            for name, k in sheet.values.items()}  # type: ignore[attr-defined]
+
+
+@settings(max_examples=120, deadline=None)
+@given(machines, st.lists(st.sampled_from(OPTIONAL), max_size=4, unique=True),
+       st.booleans())
+def test_skipping_relations_with_known_outputs_changes_no_value(spec, dropped, ke_from_kt):
+    data = record(spec, "PLAN")
+    for section, name in dropped:
+        data.get(section, {}).pop(name, None)
+    if ke_from_kt and "constant" in data.get("emf", {}):
+        data["torque_constant"] = "2.5 N*m/A"
+        del data["emf"]["constant"]
+    relations = all_relations()
+    planned = engine_run._derive_plan(tuple(relations))
+
+    shortcut = _sheet(data)
+    engine_run.derive(shortcut, relations)  # type: ignore[arg-type]
+
+    produced: list[tuple[str, str, frozenset[str] | None]] = []
+    without = [(relation, inputs, None, per_point)
+               for relation, inputs, _outputs, per_point in planned]
+    original_derive = {id(r): r.derive for r, *_ in planned}
+    try:
+        for relation, _inputs, outputs, _per_point in planned:
+            def traced(sheet, relation=relation, outputs=outputs):
+                out = list(original_derive[id(relation)](sheet))
+                produced.extend((relation.rule, d.field, outputs) for d in out)
+                return iter(out)
+            relation.derive = traced  # type: ignore[method-assign]
+        engine_run._derive_plan.cache_clear()
+        full = _sheet(data)
+        original_plan = engine_run._derive_plan
+        engine_run._derive_plan = lambda _relations: without  # type: ignore[assignment]
+        try:
+            engine_run.derive(full, relations)  # type: ignore[arg-type]
+        finally:
+            engine_run._derive_plan = original_plan
+    finally:
+        for relation, *_ in planned:
+            del relation.derive
+        engine_run._derive_plan.cache_clear()
+
+    assert _snapshot(shortcut) == _snapshot(full)
+    for rule, field, outputs in produced:
+        if outputs is not None:
+            general = re.sub(r"^points\[\d+\]\.", "rated.", field)
+            assert general in outputs, f"{rule} filled {field}, not in its derive_outputs"
