@@ -13,15 +13,16 @@ import copy
 import math
 from collections.abc import Iterator
 from dataclasses import dataclass
+from dataclasses import field as dataclass_field
 from typing import Any, ClassVar
 
 from sheetlint.engine.core import (
     ESTIMATE,
     Derivation,
     Finding,
+    Known,
     Relation,
     Sheet,
-    Sources,
 )
 
 _PENDING: Any = object()  # coefficients not resolved yet
@@ -35,7 +36,8 @@ class Evaluation:
     fields: tuple[str, ...]
     residual: float  # ln(actual/expected) of the reported field, scaled to exponent 1
     tolerance: float  # allowed |residual|
-    sources: Sources = ()  # (known value, exponent) of each term
+    knowns: list[Known] = dataclass_field(default_factory=list)  # the value of each term
+    exponents: tuple[float, ...] = ()  # the exponent of each term
     scale: float = 1.0  # exponent of the reported field
     finding: Finding | None = None
     _coefficients: Any = _PENDING
@@ -49,7 +51,7 @@ class Evaluation:
         found = self._coefficients
         if found is _PENDING:
             found = {}
-            for known, exponent in self.sources:
+            for known, exponent in zip(self.knowns, self.exponents, strict=True):
                 sensitivity = known.sensitivity
                 if sensitivity is None:
                     found = None
@@ -176,29 +178,28 @@ class Monomial(Relation):
         values = sheet.values
         rule = self.rule
         allow_estimates = self.allow_estimates
-        knowns = []
-        for name, _ in items:
-            k = values.get(name)
+        knowns = [values.get(name) for name, _ in items]
+        for k in knowns:
             if k is None or k.rule == rule or (k.origin == ESTIMATE and not allow_estimates):
                 return None
-            knowns.append(k)
         constant = self.constant(sheet)
         if constant is None or constant <= 0:
             return None
         reported = self.reported_field(sheet)
-        a0 = 0.0
         log_residual = -math.log(constant)
         tolerance = 0.0
-        for (name, exponent), k in zip(items, knowns, strict=True):
-            if k.value <= 0:
+        a0 = 0.0
+        for (name, exponent), k in zip(items, knowns):  # noqa: B905 (same length)
+            value = k.value  # type: ignore[union-attr]
+            if value <= 0:
                 return None
             if name == reported:
                 a0 = exponent
-            log_residual += exponent * math.log(k.value)
-            tolerance += abs(exponent) * k.uncertainty
+            log_residual += exponent * math.log(value)
+            tolerance += abs(exponent) * k.uncertainty  # type: ignore[union-attr]
         tolerance = tolerance / abs(a0) + self.allowance(sheet)
-        return Evaluation(self, tuple(n for n, _ in items), log_residual / a0, tolerance,
-                          tuple((k, e) for k, (_, e) in zip(knowns, items, strict=True)), a0)
+        return Evaluation(self, tuple(name for name, _ in items), log_residual / a0, tolerance,
+                          knowns, tuple(e for _, e in items), a0)  # type: ignore[arg-type]
 
     def reported_field(self, sheet: Sheet) -> str:
         return self.at(self.reported)
