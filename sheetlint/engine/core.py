@@ -188,7 +188,7 @@ class Sheet:
         self.values = values
         self.attributes = dict(attributes)
         self.settings = settings or Settings()
-        self.locate = locate or (lambda _field: None)
+        self.locate = locate
         self.located: dict[str, dict[str, Any] | None] = {}
         self.findings: list[Finding] = []
 
@@ -245,14 +245,15 @@ class Sheet:
         act.update(actual_text or {})
         fields = tuple(fields)
         location = None
-        located = self.located
-        for f in fields:
-            if f in located:
-                location = located[f]
-            else:
-                location = located[f] = self.locate(f)
-            if location:
-                break
+        if self.locate is not None:
+            located = self.located
+            for f in fields:
+                if f in located:
+                    location = located[f]
+                else:
+                    location = located[f] = self.locate(f)
+                if location:
+                    break
         return Finding(relation.rule, severity, message, fields, exp, act, deviation, cause,
                        source if source is not None else relation.source, location)
 

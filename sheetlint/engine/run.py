@@ -124,7 +124,7 @@ def check_record(raw: RawRecord, settings: Settings | None = None) -> RecordResu
         message = (validation_message(exc, data) if content_only else
                    schema_message(data) or validation_message(exc, data))
         return RecordResult(label, message, index=raw.index)
-    return run_engine(record, settings, raw.locate, raw.index)
+    return run_engine(record, settings, raw.locate if raw.has_locations else None, raw.index)
 
 
 def run_engine(record: MachineRecord, settings: Settings | None = None, locate: Any = None,

@@ -39,12 +39,21 @@ class WrittenFloat(float):
         return obj
 
 
+def _nowhere(_path: str) -> None:
+    """The locator of a record that did not come from a file."""
+    return None
+
+
 @dataclass(slots=True)
 class RawRecord:
     data: Any
     index: int | None  # position in "records", None for a single-record file
     prefix: str  # path prefix of this record in the file ("records[3]." or "")
-    locate_in_file: Locator = field(default=lambda _p: None)
+    locate_in_file: Locator = field(default=_nowhere)
+
+    @property
+    def has_locations(self) -> bool:
+        return self.locate_in_file is not _nowhere
 
     def locate(self, path: str) -> dict[str, Any] | None:
         """Source location of a field path of this record (walks up to the nearest parent)."""
