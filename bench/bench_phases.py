@@ -1,0 +1,87 @@
+"""Where the engine's time goes: microseconds per record in each phase and each relation.
+
+Runs the engine's phases one by one on the benchmark records of ``bench_engine.py`` (validate,
+build the sheet, screen, derive, each relation's check, cause diagnosis, estimates) and prints
+the mean time per record of each, largest first. The phases are timed separately, so the sum
+is a little above what ``bench_engine.py`` measures for the whole path. Prints figures;
+asserts nothing.
+
+Run: python bench/bench_phases.py [N]
+"""
+
+from __future__ import annotations
+
+import copy
+import sys
+import time
+from collections import Counter
+
+from bench_engine import make_records  # the same records (this script's folder is on the path)
+
+from sheetlint.engine import run as engine
+from sheetlint.engine.build import build_sheet
+from sheetlint.engine.core import SEVERITY_RANK, Settings
+from sheetlint.engine.monomial import Monomial
+from sheetlint.intake.records import RawRecord
+from sheetlint.model import MachineRecord
+from sheetlint.relations.registry import all_relations
+
+
+def main() -> None:
+    n = int(sys.argv[1]) if len(sys.argv) > 1 else 3000
+    records = make_records(n)
+    engine.check_record(RawRecord(copy.deepcopy(records[0]), None, ""))  # warm imports
+    relations = all_relations()
+    clock = time.perf_counter
+    spent: Counter[str] = Counter()
+    for data in records:
+        t0 = clock()
+        record = MachineRecord.model_validate(copy.deepcopy(data))
+        t1 = clock()
+        sheet, notes = build_sheet(record, Settings())
+        t2 = clock()
+        findings = list(notes)
+        for relation in relations:
+            screen = getattr(relation, "screen", None)
+            if screen is not None:
+                findings.extend(screen(sheet))
+        t3 = clock()
+        engine.derive(sheet, relations)
+        t4 = clock()
+        spent["validate (pydantic, units)"] += t1 - t0
+        spent["build sheet"] += t2 - t1
+        spent["screen"] += t3 - t2
+        spent["derive"] += t4 - t3
+        evaluations = []
+        for relation in relations:
+            start = clock()
+            if isinstance(relation, Monomial):
+                for variant in relation.variants(sheet):
+                    evaluation = variant.evaluate(sheet)
+                    if evaluation is None:
+                        continue
+                    if abs(evaluation.residual) > evaluation.tolerance:
+                        evaluation.finding = variant.failure(sheet, evaluation)
+                    evaluations.append(evaluation)
+            else:
+                findings.extend(relation.check(sheet))
+            spent[f"check {relation.rule}"] += clock() - start
+        t5 = clock()
+        findings.extend(engine._explain_failures(sheet, evaluations))
+        t6 = clock()
+        engine._estimate(sheet, relations)
+        findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))
+        t7 = clock()
+        spent["diagnose causes"] += t6 - t5
+        spent["estimate, sort"] += t7 - t6
+    total = sum(spent.values())
+    print(f"records: {n}; µs per record (phases timed one by one)")
+    for name, seconds in spent.most_common():
+        print(f"  {name:34s} {seconds / n * 1e6:8.1f}")
+    print(f"  {'total':34s} {total / n * 1e6:8.1f}")
+    validation = spent["validate (pydantic, units)"]
+    print(f"  {'total after validation':34s} {(total - validation) / n * 1e6:8.1f}")
+
+
+if __name__ == "__main__":
+    main()
