@@ -9,6 +9,7 @@ fills a field it did not declare.
 from __future__ import annotations
 
 import copy
+import dataclasses
 import re
 
 from hypothesis import given, settings
@@ -61,11 +62,12 @@ def test_skipping_relations_with_known_outputs_changes_no_value(spec, dropped, k
     engine_run.derive(shortcut, relations)  # type: ignore[arg-type]
 
     produced: list[tuple[str, str, frozenset[str] | None]] = []
-    without = [(relation, inputs, None, per_point)
-               for relation, inputs, _outputs, per_point in planned]
-    original_derive = {id(r): r.derive for r, *_ in planned}
+    without = dataclasses.replace(planned, steps=tuple(
+        (relation, None, always, per_point)
+        for relation, _outputs, always, per_point in planned.steps))
+    original_derive = {id(step[0]): step[0].derive for step in planned.steps}
     try:
-        for relation, _inputs, outputs, _per_point in planned:
+        for relation, outputs, _always, _per_point in planned.steps:
             def traced(sheet, relation=relation, outputs=outputs):
                 out = list(original_derive[id(relation)](sheet))
                 produced.extend((relation.rule, d.field, outputs) for d in out)
@@ -80,8 +82,8 @@ def test_skipping_relations_with_known_outputs_changes_no_value(spec, dropped, k
         finally:
             engine_run._derive_plan = original_plan
     finally:
-        for relation, *_ in planned:
-            del relation.derive
+        for step in planned.steps:
+            del step[0].derive
         engine_run._derive_plan.cache_clear()
 
     assert _snapshot(shortcut) == _snapshot(full)

@@ -176,42 +176,43 @@ def _not_evaluated(sheet: Sheet, relation: Any, exc: BaseException) -> Finding:
 def derive(sheet: Sheet, relations: list[Any]) -> None:
     """Run the relations' ``derive`` until no new value appears (a fixed point).
 
-    A relation is called again only when a field it reads (``derive_inputs``) appeared since
-    its last call; relations that declare no inputs are called every round. A relation whose
-    ``derive_outputs`` are all known already is not called (with operating points listed, a
-    per-point relation always is).
+    Rounds go through the relations in order. A relation is called again only when a field it
+    reads (``derive_inputs``) appeared since its last call; relations that declare no inputs
+    are called every round. A relation whose ``derive_outputs`` are all known already is not
+    called (with operating points listed, a per-point relation always is).
     """
     values = sheet.values
     keys = values.keys()
     plan = _derive_plan(tuple(relations))
     has_points = bool(sheet.attributes.get("points.count"))
-    added: list[str] = []
-    seen = [-1] * len(plan)  # position in ``added`` at each relation's last call
+    due = [True] * len(plan.steps)  # a field the relation reads appeared since its last call
     for _ in range(MAX_DERIVE_ROUNDS):
-        before = len(added)
-        for index, (relation, inputs, outputs, per_point) in enumerate(plan):
-            last = seen[index]
-            if last >= 0 and inputs is not None:
-                fresh = added[last:]
-                if inputs.isdisjoint(fresh) and not (
-                        per_point and any(f.startswith("points[") for f in fresh)):
-                    continue
+        grew = False
+        for index, (relation, outputs, always, per_point) in enumerate(plan.steps):
+            if not due[index]:
+                continue
+            due[index] = always
             if outputs is not None and keys >= outputs and not (per_point and has_points):
                 continue
-            seen[index] = len(added)
             try:
                 derivations = list(relation.derive(sheet))
             except NUMERIC_FAILURES:
                 continue  # the check of the same relation reports it
             for d in derivations:
-                if d.field in values or not math.isfinite(d.value):
+                name = d.field
+                if name in values or not math.isfinite(d.value):
                     continue
-                values[d.field] = Known(
+                values[name] = Known(
                     d.value, d.uncertainty, ESTIMATE if d.estimate else DERIVED, relation.rule,
-                    d.inputs, note=d.note, sensitivity=d.sensitivity,
-                    temperature=d.temperature, sources=d.sources)
-                added.append(d.field)
-        if len(added) == before:
+                    d.inputs, None, False, d.temperature, None, d.note, d.sensitivity,
+                    d.sources)
+                grew = True
+                for reader in plan.readers.get(name, ()):
+                    due[reader] = True
+                if name.startswith("points["):
+                    for reader in plan.point_readers:
+                        due[reader] = True
+        if not grew:
             return
 
 
@@ -232,13 +233,21 @@ def _estimate(sheet: Sheet, relations: list[Any]) -> None:
                                         d.inputs, note=d.note)
 
 
-DerivePlan = list[tuple[Any, frozenset[str] | None, frozenset[str] | None, bool]]
+@dataclass(frozen=True, slots=True)
+class DerivePlan:
+    """The relations that derive anything, in order, and which of them read each field."""
+
+    #: (relation, the fields it fills or None if unknown, called every round, per point)
+    steps: tuple[tuple[Any, frozenset[str] | None, bool, bool], ...]
+    readers: dict[str, tuple[int, ...]]  # field -> steps whose ``derive`` reads it
+    point_readers: tuple[int, ...]  # per-point steps: they read every ``points[i].`` field
 
 
 @cache
 def _derive_plan(relations: tuple[Any, ...]) -> DerivePlan:
-    """The relations that derive anything, with the fields they read and fill (None: unknown)."""
-    plan: DerivePlan = []
+    """The derive plan of a list of relations (built once per list)."""
+    steps = []
+    readers: dict[str, list[int]] = {}
     for relation in relations:
         if type(relation).derive is Relation.derive:
             continue
@@ -252,10 +261,12 @@ def _derive_plan(relations: tuple[Any, ...]) -> DerivePlan:
                            else tuple(relation.terms))
         if outputs is not None and not outputs:
             continue  # fills nothing
-        plan.append((relation, frozenset(inputs) if inputs is not None else None,
-                     frozenset(outputs) if outputs is not None else None,
-                     bool(getattr(relation, "per_point", False))))
-    return plan
+        for name in inputs or ():
+            readers.setdefault(name, []).append(len(steps))
+        steps.append((relation, frozenset(outputs) if outputs is not None else None,
+                      inputs is None, bool(getattr(relation, "per_point", False))))
+    return DerivePlan(tuple(steps), {k: tuple(v) for k, v in readers.items()},
+                      tuple(i for i, step in enumerate(steps) if step[3]))
 
 
 def _explain_failures(sheet: Sheet, evaluations: list[Evaluation]) -> list[Finding]:
