@@ -418,40 +418,81 @@ def base_speed(machine: DqMachine, current_rms: float, line_voltage_limit: float
     return omega_e / machine.pole_pairs
 
 
-def _currents_at_voltage_angle(machine: DqMachine, u: float, omega_e: float,
-                               angle: float) -> tuple[float, float]:
-    """(i_d, i_q) for a voltage vector of amplitude u [V peak] at ``angle`` ahead of q."""
-    r = machine.resistance
-    u_d = -u * math.sin(angle)
-    u_q = u * math.cos(angle) - omega_e * machine.flux_linkage
-    det = r * r + omega_e * omega_e * machine.ld * machine.lq
-    i_d = (r * u_d + omega_e * machine.lq * u_q) / det
-    i_q = (r * u_q - omega_e * machine.ld * u_d) / det
-    return i_d, i_q
+class _LoadAngleTorque:
+    """Torque against the load angle at a fixed voltage amplitude and frequency (U/f).
 
+    The voltage vector of amplitude u [V peak] leads the q-axis by the load angle d:
+    u_d = -u sin d, u_q = u cos d; the steady-state currents follow from the dq equations,
 
-def _torque_at_voltage_angle(machine: DqMachine, u: float, omega_e: float,
-                             angle: float) -> tuple[float, float, float]:
-    """Torque and its first two derivatives in the load angle, voltage amplitude fixed."""
-    r = machine.resistance
-    det = r * r + omega_e * omega_e * machine.ld * machine.lq
-    s, c = math.sin(angle), math.cos(angle)
-    u_d, u_q = -u * s, u * c - omega_e * machine.flux_linkage
-    du_d, du_q = -u * c, -u * s
-    ddu_d, ddu_q = u * s, -u * c
-    wlq, wld = omega_e * machine.lq, omega_e * machine.ld
-    i_d = (r * u_d + wlq * u_q) / det
-    i_q = (r * u_q - wld * u_d) / det
-    di_d = (r * du_d + wlq * du_q) / det
-    di_q = (r * du_q - wld * du_d) / det
-    ddi_d = (r * ddu_d + wlq * ddu_q) / det
-    ddi_q = (r * ddu_q - wld * ddu_d) / det
-    k = 1.5 * machine.pole_pairs
-    psi, dl = machine.flux_linkage, machine.ld - machine.lq
-    t = k * (psi * i_q + dl * i_d * i_q)
-    dt = k * (psi * di_q + dl * (di_d * i_q + i_d * di_q))
-    ddt = k * (psi * ddi_q + dl * (ddi_d * i_q + 2.0 * di_d * di_q + i_d * ddi_q))
-    return t, dt, ddt
+    .. math:: i_d = \\frac{R u_d' + \\omega_e L_q u_q'}{R^2 + \\omega_e^2 L_d L_q}, \\quad
+        i_q = \\frac{R u_q' - \\omega_e L_d u_d'}{R^2 + \\omega_e^2 L_d L_q}, \\quad
+        u_d' = u_d, \\ u_q' = u_q - \\omega_e \\psi
+
+    and T = 3/2 p (psi i_q + (L_d - L_q) i_d i_q). The terms that do not depend on the angle
+    are worked out once; the derivatives in the angle are exact (d/dd of sin and cos).
+    ``target`` is subtracted by :meth:`excess`, for root finding at a given torque.
+    """
+
+    __slots__ = ("det", "dl", "k", "neg_u", "psi", "r", "target", "u", "w_psi", "wld", "wlq")
+
+    def __init__(self, machine: DqMachine, u: float, omega_e: float, target: float = 0.0):
+        r = machine.resistance
+        self.r = r
+        self.det = r * r + omega_e * omega_e * machine.ld * machine.lq
+        self.u, self.neg_u = u, -u
+        self.w_psi = omega_e * machine.flux_linkage
+        self.wlq, self.wld = omega_e * machine.lq, omega_e * machine.ld
+        self.k = 1.5 * machine.pole_pairs
+        self.psi, self.dl = machine.flux_linkage, machine.ld - machine.lq
+        self.target = target
+
+    def currents(self, angle: float) -> tuple[float, float]:
+        """(i_d, i_q) [A peak] at the load angle."""
+        r, det = self.r, self.det
+        u_d = self.neg_u * math.sin(angle)
+        u_q = self.u * math.cos(angle) - self.w_psi
+        return (r * u_d + self.wlq * u_q) / det, (r * u_q - self.wld * u_d) / det
+
+    def torque_at(self, sin_angle: float, cos_angle: float) -> float:
+        """T [N*m] at the load angle given by its sine and cosine."""
+        r, det = self.r, self.det
+        u_d = self.neg_u * sin_angle
+        u_q = self.u * cos_angle - self.w_psi
+        i_d = (r * u_d + self.wlq * u_q) / det
+        i_q = (r * u_q - self.wld * u_d) / det
+        return self.k * (self.psi * i_q + self.dl * i_d * i_q)
+
+    def torque(self, angle: float) -> float:
+        """T [N*m] at the load angle [rad]."""
+        return self.torque_at(math.sin(angle), math.cos(angle))
+
+    def excess(self, angle: float) -> tuple[float, float]:
+        """(T - target, dT/dd) at the load angle: the function a root finder wants."""
+        r, det, wlq, wld = self.r, self.det, self.wlq, self.wld
+        us, uc = self.u * math.sin(angle), self.u * math.cos(angle)
+        u_d, u_q = -us, uc - self.w_psi  # du_d/dd = -uc, du_q/dd = -us
+        i_d = (r * u_d + wlq * u_q) / det
+        i_q = (r * u_q - wld * u_d) / det
+        di_d = (r * -uc + wlq * u_d) / det
+        di_q = (r * u_d - wld * -uc) / det
+        dl = self.dl
+        t = self.k * (self.psi * i_q + dl * i_d * i_q)
+        return t - self.target, self.k * (self.psi * di_q + dl * (di_d * i_q + i_d * di_q))
+
+    def slope_and_curvature(self, angle: float) -> tuple[float, float]:
+        """(dT/dd, d2T/dd2) at the load angle: what a search for the maximum wants."""
+        r, det, wlq, wld = self.r, self.det, self.wlq, self.wld
+        us, uc = self.u * math.sin(angle), self.u * math.cos(angle)
+        u_d, u_q = -us, uc - self.w_psi  # first derivatives -uc, -us; second us, -uc
+        i_d = (r * u_d + wlq * u_q) / det
+        i_q = (r * u_q - wld * u_d) / det
+        di_d = (r * -uc + wlq * u_d) / det
+        di_q = (r * u_d - wld * -uc) / det
+        ddi_d = (r * us + wlq * -uc) / det
+        ddi_q = (r * -uc - wld * us) / det
+        k, psi, dl = self.k, self.psi, self.dl
+        return (k * (psi * di_q + dl * (di_d * i_q + i_d * di_q)),
+                k * (psi * ddi_q + dl * (ddi_d * i_q + 2.0 * di_d * di_q + i_d * ddi_q)))
 
 
 def pull_out(machine: DqMachine, line_voltage: float, speed: float) -> tuple[float, float]:
@@ -467,21 +508,21 @@ def pull_out(machine: DqMachine, line_voltage: float, speed: float) -> tuple[flo
     a = k * machine.flux_linkage * u / (omega_e * machine.ld)
     b = 0.5 * k * u * u / (omega_e * omega_e) * (1.0 / machine.lq - 1.0 / machine.ld)
     start = math.acos(max(-1.0, min(1.0, 4.0 * b / (a + math.sqrt(a * a + 32.0 * b * b)))))
-    t_start = _torque_at_voltage_angle(machine, u, omega_e, start)[0]
-    angle = _newton_maximum(machine, u, omega_e, start)
+    curve = _LoadAngleTorque(machine, u, omega_e)
+    t_start = curve.torque(start)
+    angle = _newton_maximum(curve, start)
     if angle is not None:
-        torque = _torque_at_voltage_angle(machine, u, omega_e, angle)[0]
+        torque = curve.torque(angle)
         if torque >= t_start:
             return torque, angle
-    torque, angle = _scan_maximum(machine, u, omega_e)
-    return torque, angle
+    return _scan_maximum(curve)
 
 
-def _newton_maximum(machine: DqMachine, u: float, omega_e: float,
-                    angle: float) -> float | None:
+def _newton_maximum(curve: _LoadAngleTorque, angle: float) -> float | None:
     """Newton on dT/d(angle) = 0 from ``angle``; None when it leaves a maximum's basin."""
+    slope_and_curvature = curve.slope_and_curvature
     for _ in range(30):
-        _, dt, ddt = _torque_at_voltage_angle(machine, u, omega_e, angle)
+        dt, ddt = slope_and_curvature(angle)
         if ddt >= 0.0:
             return None
         step = max(-0.2, min(0.2, dt / ddt))
@@ -491,17 +532,22 @@ def _newton_maximum(machine: DqMachine, u: float, omega_e: float,
     return angle
 
 
-def _scan_maximum(machine: DqMachine, u: float, omega_e: float) -> tuple[float, float]:
+#: the 48 load angles of the coarse scan for the torque maximum, with their sine and cosine
+_SCAN_ANGLES = tuple((angle, math.sin(angle), math.cos(angle))
+                     for angle in (-math.pi + 2.0 * math.pi * j / 48.0 for j in range(48)))
+
+
+def _scan_maximum(curve: _LoadAngleTorque) -> tuple[float, float]:
     """Largest torque over the load angle: a scan of the full circle, then Newton."""
     best_t, best = -math.inf, 0.0
-    for j in range(48):
-        angle = -math.pi + 2.0 * math.pi * j / 48.0
-        t = _torque_at_voltage_angle(machine, u, omega_e, angle)[0]
+    torque_at = curve.torque_at
+    for angle, sin_angle, cos_angle in _SCAN_ANGLES:
+        t = torque_at(sin_angle, cos_angle)
         if t > best_t:
             best_t, best = t, angle
-    refined = _newton_maximum(machine, u, omega_e, best)
+    refined = _newton_maximum(curve, best)
     if refined is not None:
-        t = _torque_at_voltage_angle(machine, u, omega_e, refined)[0]
+        t = curve.torque(refined)
         if t >= best_t:
             return t, refined
     return best_t, best
@@ -520,10 +566,8 @@ def open_loop_load_angle(machine: DqMachine, line_voltage: float, speed: float,
     if torque > t_max:
         return None
     hi = angle_max
-
-    def f(x: float) -> tuple[float, float]:
-        t, dt, _ = _torque_at_voltage_angle(machine, u, omega_e, x)
-        return t - torque, dt
+    curve = _LoadAngleTorque(machine, u, omega_e, target=torque)
+    f = curve.excess
 
     # half a turn back from pull-out the machine generates; else take the torque minimum
     lo = angle_max - math.pi
@@ -540,8 +584,9 @@ def open_loop_load_angle(machine: DqMachine, line_voltage: float, speed: float,
 def _max_torque_on_voltage_limit(machine: DqMachine, u: float,
                                  omega_e: float) -> tuple[float, float, float]:
     """Maximum torque on the voltage limit (MTPV point): (torque, i_d, i_q)."""
-    t, angle = _scan_maximum(machine, u, max(omega_e, 1e-12))
-    i_d, i_q = _currents_at_voltage_angle(machine, u, max(omega_e, 1e-12), angle)
+    curve = _LoadAngleTorque(machine, u, max(omega_e, 1e-12))
+    t, angle = _scan_maximum(curve)
+    i_d, i_q = curve.currents(angle)
     return t, i_d, i_q
 
 
