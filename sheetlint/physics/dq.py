@@ -31,7 +31,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any
 
 SQRT2 = math.sqrt(2.0)
@@ -70,10 +70,12 @@ class DqMachine:
 
     def valid(self) -> bool:
         """True when every parameter is finite and in range (psi, L, p > 0, R >= 0)."""
-        values = (self.flux_linkage, self.ld, self.lq, self.resistance, self.pole_pairs)
-        return (all(math.isfinite(v) for v in values) and self.flux_linkage > 0.0
-                and self.ld > 0.0 and self.lq > 0.0 and self.resistance >= 0.0
-                and self.pole_pairs > 0.0)
+        isfinite = math.isfinite
+        psi, ld, lq, r, p = (self.flux_linkage, self.ld, self.lq, self.resistance,
+                             self.pole_pairs)
+        return (isfinite(psi) and isfinite(ld) and isfinite(lq) and isfinite(r)
+                and isfinite(p) and psi > 0.0 and ld > 0.0 and lq > 0.0 and r >= 0.0
+                and p > 0.0)
 
 
 @dataclass(frozen=True, slots=True)
@@ -347,26 +349,34 @@ def solve_point(machine: DqMachine, i_d: float, i_q: float, speed: float,
 
 
 def operating_point(machine: DqMachine, torque: float, speed: float,
-                    line_voltage_limit: float | None = None) -> OperatingPoint:
+                    line_voltage_limit: float | None = None, *,
+                    mtpa: OperatingPoint | None = None) -> OperatingPoint:
     """Least-current operating point for a torque [N*m] at a mechanical speed [rad/s].
 
     Below base speed the MTPA point (closed form / Newton); when its voltage exceeds
     ``line_voltage_limit`` [V line rms] the point on the voltage limit with the least current
     (field weakening: i_d more negative than MTPA, same torque). ``region`` says which.
+    ``mtpa`` is ``operating_point(machine, torque, speed)`` (no limit) when the caller has it
+    already; the limit is then applied to it instead of solving it again.
     """
-    i_d, i_q = mtpa_currents_for_torque(machine, torque)
-    if line_voltage_limit is None:
-        return solve_point(machine, i_d, i_q, speed, "mtpa")
-    omega_e = machine.pole_pairs * speed
+    if mtpa is None:
+        i_d, i_q = mtpa_currents_for_torque(machine, torque)
+        if line_voltage_limit is None:
+            return solve_point(machine, i_d, i_q, speed, "mtpa")
+        u_d, u_q = stator_voltage(machine, i_d, i_q, machine.pole_pairs * speed)
+    elif line_voltage_limit is None:
+        return mtpa
+    else:
+        i_d, i_q, u_d, u_q = mtpa.id, mtpa.iq, mtpa.ud, mtpa.uq
     u_limit = peak_phase_from_line_rms(line_voltage_limit)
-    u_d, u_q = stator_voltage(machine, i_d, i_q, omega_e)
     u2 = u_limit * u_limit
     if u_d * u_d + u_q * u_q <= u2 * (1.0 + 1e-12) or torque == 0.0:
-        return solve_point(machine, i_d, i_q, speed, "mtpa")
+        return mtpa if mtpa is not None else solve_point(machine, i_d, i_q, speed, "mtpa")
     c = torque / (1.5 * machine.pole_pairs)
-    i_d_fw = _field_weakening_id(machine, c, omega_e, u2, i_d)
+    i_d_fw = _field_weakening_id(machine, c, machine.pole_pairs * speed, u2, i_d)
     if i_d_fw is None:
-        return solve_point(machine, i_d, i_q, speed, "unreachable")
+        return (replace(mtpa, region="unreachable") if mtpa is not None
+                else solve_point(machine, i_d, i_q, speed, "unreachable"))
     i_q_fw = c / (machine.flux_linkage + (machine.ld - machine.lq) * i_d_fw)
     return solve_point(machine, i_d_fw, i_q_fw, speed, "field-weakening")
 
