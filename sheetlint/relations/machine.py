@@ -12,7 +12,6 @@ import functools
 import math
 from collections.abc import Callable, Iterator
 from dataclasses import dataclass, field
-from typing import Any
 
 from sheetlint.cautions import FINDING_CAUTION as CAUTION
 from sheetlint.engine.core import Finding, Relation, Sheet
@@ -89,8 +88,9 @@ class ModelInputs:
 
 
 def _pole_pairs(sheet: Sheet) -> tuple[float, str] | None:
+    get = sheet.values.get
     for name, scale in (("machine.pole_pairs", 1.0), ("machine.poles", 0.5)):
-        known = sheet.get(name)
+        known = get(name)
         if known is not None and known.value > 0.0 and math.isfinite(known.value):
             return known.value * scale, name
     return None
@@ -102,17 +102,10 @@ def _flux_linkage(sheet: Sheet, pole_pairs: float,
 
     Returns (psi, field, note, estimate, uncertainty).
     """
-    magnet = sheet.attr("machine.magnet")
-    if temperature == "hot":
-        target = sheet.get("rated.magnet_temperature")
-        target_k = target.value if target is not None else None
-        direct = ("emf.constant_hot", "emf.flux_linkage_hot")
-    else:
-        lowest = sheet.get("machine.ambient.min")
-        target_k = lowest.value if lowest is not None else ROOM
-        direct = ("emf.constant_cold",)
-    for name in direct:
-        known = sheet.get(name)
+    get = sheet.values.get
+    hot = temperature == "hot"
+    for name in ("emf.constant_hot", "emf.flux_linkage_hot") if hot else ("emf.constant_cold",):
+        known = get(name)
         if known is None or not known.value > 0.0:
             continue
         psi = (flux_linkage_from_ke(known.value, pole_pairs) if name.startswith("emf.constant")
@@ -120,9 +113,15 @@ def _flux_linkage(sheet: Sheet, pole_pairs: float,
         note = f"{name}: {known.note}" if known.note else None
         return psi, name, note, known.is_estimate, known.uncertainty
     for name in ("emf.flux_linkage", "emf.constant"):
-        known = sheet.get(name)
+        known = get(name)
         if known is None or not known.value > 0.0:
             continue
+        if hot:
+            target = get("rated.magnet_temperature")
+            target_k = target.value if target is not None else None
+        else:
+            lowest = get("machine.ambient.min")
+            target_k = lowest.value if lowest is not None else ROOM
         psi = (known.value if name == "emf.flux_linkage"
                else flux_linkage_from_ke(known.value, pole_pairs))
         from_k = known.temperature if known.temperature is not None else ROOM
@@ -130,20 +129,22 @@ def _flux_linkage(sheet: Sheet, pole_pairs: float,
             note = (f"{name} at {_celsius(from_k)} used as is: no rated magnet temperature, "
                     "so the hot value (lower) is not known")
         else:
+            magnet = sheet.attr("machine.magnet")
             psi *= remanence_factor(magnet, from_k, target_k)
             note = (f"{name} scaled from {_celsius(from_k)} to {_celsius(target_k)} "
                     f"({magnet or 'NdFeB'} remanence coefficient)")
-            if temperature == "cold" and sheet.get("machine.ambient.min") is None:
+            if temperature == "cold" and get("machine.ambient.min") is None:
                 note += "; no lowest ambient given, 20 °C assumed"
         return psi, name, note, known.is_estimate, known.uncertainty
     return None
 
 
 def _resistance(sheet: Sheet) -> tuple[float, str | None, str | None, bool, float]:
-    hot = sheet.get("circuit.resistance_hot")
+    get = sheet.values.get
+    hot = get("circuit.resistance_hot")
     if hot is not None and hot.value >= 0.0:
         return hot.value, "circuit.resistance_hot", None, hot.is_estimate, hot.uncertainty
-    cold = sheet.get("circuit.resistance")
+    cold = get("circuit.resistance")
     if cold is not None and cold.value >= 0.0:
         t = cold.temperature if cold.temperature is not None else ROOM
         return (cold.value, "circuit.resistance",
@@ -152,9 +153,39 @@ def _resistance(sheet: Sheet) -> tuple[float, str | None, str | None, bool, floa
     return 0.0, None, "no resistance given: copper drop neglected", False, 0.0
 
 
-#: cache for one sheet at a time: the relations of this module check the same sheet one after
-#: another. It holds the sheet itself, so an identity test cannot be fooled by a recycled id.
-_CACHE: dict[str, Any] = {"sheet": None, "entries": {}}
+class _SheetMemo:
+    """What the machine relations of one sheet share, each worked out once.
+
+    The engine checks one sheet with all relations, in registry order, before the next one,
+    so one memo is kept at a time. It holds the sheet itself (an identity test cannot be
+    fooled by a recycled id) and the number of its values (a value added in between starts a
+    fresh memo). Operating points are memoised by all their arguments, so a memo can never
+    hand a relation a point of other inputs.
+    """
+
+    __slots__ = ("inputs", "own_rules", "points", "sheet", "size", "voltage_limit",
+                 "voltage_limit_known")
+
+    def __init__(self, sheet: Sheet) -> None:
+        self.sheet = sheet
+        self.size = len(sheet.values)
+        self.own_rules = {k.rule for k in sheet.values.values() if k.rule is not None}
+        self.inputs: dict[tuple[str, str, bool], ModelInputs | None] = {}
+        self.points: dict[tuple[DqMachine, float, float, float | None], OperatingPoint] = {}
+        self.voltage_limit: VoltageLimit | None = None
+        self.voltage_limit_known = False
+
+
+_memo: _SheetMemo | None = None
+
+
+def _sheet_memo(sheet: Sheet) -> _SheetMemo:
+    """The memo of ``sheet``: the current one, or a fresh one when the sheet is new or grew."""
+    global _memo
+    memo = _memo
+    if memo is None or memo.sheet is not sheet or memo.size != len(sheet.values):
+        memo = _memo = _SheetMemo(sheet)
+    return memo
 
 
 def model_inputs(sheet: Sheet, rule: str, temperature: str = "hot",
@@ -162,17 +193,42 @@ def model_inputs(sheet: Sheet, rule: str, temperature: str = "hot",
     """The dq machine of a sheet, or None when psi, p (and L_d, L_q) are not known.
 
     Values derived by ``rule`` itself are not used (``Sheet.usable``); estimates are used but
-    flagged, so that no error is raised on them.
+    flagged, so that no error is raised on them. Worked out once per sheet.
     """
-    if _CACHE["sheet"] is not sheet or _CACHE["size"] != len(sheet.values):
-        own_rules = {k.rule for k in sheet.values.values() if k.rule is not None}
-        _CACHE.update(sheet=sheet, size=len(sheet.values), entries={}, own=own_rules)
+    memo = _sheet_memo(sheet)
     # a rule that derived nothing sees the same inputs as every other such rule
-    key = (rule if rule in _CACHE["own"] else "*", temperature, need_inductances)
-    entries = _CACHE["entries"]
-    if key not in entries:
-        entries[key] = _model_inputs(sheet, rule, temperature, need_inductances)
-    return entries[key]
+    key = (rule if rule in memo.own_rules else "*", temperature, need_inductances)
+    entries = memo.inputs
+    if key in entries:
+        return entries[key]
+    inputs = None
+    if not need_inductances:
+        # the two readings differ only where the one with inductances is rejected
+        inputs = model_inputs(sheet, rule, temperature, True)
+    if inputs is None:
+        inputs = _model_inputs(sheet, rule, temperature, need_inductances)
+    entries[key] = inputs
+    return inputs
+
+
+def _operating_point(sheet: Sheet, machine: DqMachine, torque: float, speed: float,
+                     line_voltage_limit: float | None = None) -> OperatingPoint:
+    """:func:`operating_point`, memoised per sheet by its arguments.
+
+    The MTPA point (no limit) is solved first and kept: ``dq-operating-point`` applies the
+    rated voltage to it and ``voltage-limit`` compares it with the converter's voltage.
+    """
+    points = _sheet_memo(sheet).points
+    key = (machine, torque, speed, line_voltage_limit)
+    point = points.get(key)
+    if point is None:
+        mtpa_key = (machine, torque, speed, None)
+        mtpa = points.get(mtpa_key)
+        if mtpa is None:
+            mtpa = points[mtpa_key] = operating_point(machine, torque, speed)
+        point = points[key] = operating_point(machine, torque, speed, line_voltage_limit,
+                                              mtpa=mtpa)
+    return point
 
 
 def _model_inputs(sheet: Sheet, rule: str, temperature: str,
@@ -185,19 +241,21 @@ def _model_inputs(sheet: Sheet, rule: str, temperature: str,
     if flux is None or not sheet.usable(rule, flux[1], allow_estimates=True):
         return None
     psi, flux_field, flux_note, flux_estimate, flux_unc = flux
-    ld_known, lq_known = sheet.get("circuit.ld"), sheet.get("circuit.lq")
-    if ld_known is None and lq_known is None:
+    get = sheet.values.get
+    ld_given, lq_given = get("circuit.ld"), get("circuit.lq")
+    if ld_given is None and lq_given is None:
         if need_inductances:
             return None
         ld = lq = 0.0
         l_fields: list[str] = []
         l_estimate, l_unc = False, 0.0
     else:
-        ld_known = ld_known or lq_known
-        lq_known = lq_known or ld_known
+        ld_known = ld_given or lq_given
+        lq_known = lq_given or ld_given
         assert ld_known is not None and lq_known is not None
         ld, lq = ld_known.value, lq_known.value
-        l_fields = [n for n in ("circuit.ld", "circuit.lq") if sheet.has(n)]
+        l_fields = [name for name, known in (("circuit.ld", ld_given), ("circuit.lq", lq_given))
+                    if known is not None]
         if not sheet.usable(rule, *l_fields, allow_estimates=True):
             return None
         l_estimate = ld_known.is_estimate or lq_known.is_estimate
@@ -209,9 +267,9 @@ def _model_inputs(sheet: Sheet, rule: str, temperature: str,
     if not (psi > 0.0 and math.isfinite(psi)):
         return None
     notes = [n for n in (flux_note, r_note) if n]
-    if ld_known is not None and not sheet.has("circuit.lq"):
+    if ld_given is not None and lq_given is None:
         notes.append("only L_d given: L_q = L_d assumed")
-    if lq_known is not None and not sheet.has("circuit.ld"):
+    if lq_given is not None and ld_given is None:
         notes.append("only L_q given: L_d = L_q assumed")
     fields = [pairs_field, flux_field, *l_fields]
     if r_field:
@@ -244,6 +302,15 @@ class VoltageLimit:
     how: str
     fields: list[str]
     from_supply: bool
+
+
+def _voltage_limit(sheet: Sheet) -> VoltageLimit | None:
+    """:func:`converter_voltage_limit`, worked out once per sheet."""
+    memo = _sheet_memo(sheet)
+    if not memo.voltage_limit_known:
+        memo.voltage_limit = converter_voltage_limit(sheet)
+        memo.voltage_limit_known = True
+    return memo.voltage_limit
 
 
 def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
@@ -308,10 +375,19 @@ def _join(notes: list[str]) -> str:
 # --- dq-operating-point ------------------------------------------------------------------------
 @dataclass(slots=True)
 class _Band:
+    """Ranges of the model's outputs over the saturation and loss corners."""
+
     nominal: OperatingPoint
     current: tuple[float, float]
     voltage: tuple[float, float]
     power_factor: tuple[float, float]
+
+    @classmethod
+    def of(cls, point: OperatingPoint) -> _Band:
+        """The band of one point: each range is the point's own value."""
+        return cls(point, (point.current_rms, point.current_rms),
+                   (point.line_voltage_rms, point.line_voltage_rms),
+                   (point.power_factor, point.power_factor))
 
 
 def _band(machine: DqMachine, torque: float, speed: float, limit: float | None,
@@ -390,8 +466,9 @@ class DqOperatingPoint(Relation):
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         rule = self.rule
+        get = sheet.values.get
         inputs = model_inputs(sheet, rule)
-        speed_known = sheet.get("rated.speed")
+        speed_known = get("rated.speed")
         torque = _rated_torque(sheet)
         if inputs is None or speed_known is None or torque is None or speed_known.value <= 0.0:
             return
@@ -406,41 +483,33 @@ class DqOperatingPoint(Relation):
         base_tol = float(sheet.option(rule, "tolerance", 0.03))
         error_ratio = float(sheet.option(rule, "error_ratio", 1.25))
         notes = list(inputs.notes)
-        losses = [sheet.get(n) for n in ("rated.losses.iron", "rated.losses.friction")]
         torque_em = shaft_torque
-        if all(k is not None for k in losses):
-            torque_em += sum(k.value for k in losses if k is not None) / speed
+        iron, friction = get("rated.losses.iron"), get("rated.losses.friction")
+        if iron is not None and friction is not None:
+            torque_em += (iron.value + friction.value) / speed
             allowance = min(allowance, 0.03)
             notes.append("iron and friction losses added to the shaft torque")
-        rated_u = sheet.get("rated.voltage")
-        limit = converter_voltage_limit(sheet)
+        rated_u = get("rated.voltage")
+        limit_value: float | None
         if rated_u is not None and rated_u.value > 0.0:
             # the rated voltage as written, widened by its own and Ke's written precision
-            limit_value: float | None = rated_u.value * (1.0 + rated_u.uncertainty
-                                                         + inputs.uncertainty)
-        elif limit is not None:
+            limit_value = rated_u.value * (1.0 + rated_u.uncertainty + inputs.uncertainty)
+        elif (limit := _voltage_limit(sheet)) is not None:
             limit_value = limit.line_rms
             notes.append(f"voltage limit: {limit.how}")
         else:
             limit_value = None
             notes.append("no voltage limit known: MTPA at any voltage")
-        estimate = inputs.estimate or any(
-            (k := sheet.get(n)) is not None and k.is_estimate
-            for n in ("rated.speed", *torque_fields, "rated.current", "rated.voltage"))
         base_fields = [*inputs.fields, "rated.speed", *torque_fields]
         unc = inputs.uncertainty + torque_unc + speed_known.uncertainty + base_tol
         machine = inputs.machine
-        nominal = operating_point(machine, torque_em, speed, limit_value)
-        # the saturation corners are solved only when the nominal model does not already fit
-        band = _Band(nominal, (nominal.current_rms,) * 2, (nominal.line_voltage_rms,) * 2,
-                     (nominal.power_factor,) * 2)
-        if not nominal.feasible or not self._fits(sheet, band, unc):
-            band = _band(machine, torque_em, speed, limit_value, lq_sat, allowance, nominal)
+        nominal = _operating_point(sheet, machine, torque_em, speed, limit_value)
 
         if nominal.region == "unreachable" and limit_value is not None:
             t_max = max_torque_at_speed(machine, 1e9, limit_value, speed)[0]
             cause = self._cause(sheet, machine, torque_em, speed, limit_value, lq_sat,
                                 allowance, unc)
+            estimate = self._estimate(sheet, inputs, torque_fields)
             yield sheet.finding(
                 self, self._basis_severity(sheet, cause, "warning", estimate),
                 f"The model cannot make the rated torque {shaft_torque:.4g} N·m at "
@@ -449,10 +518,23 @@ class DqOperatingPoint(Relation):
                 _unique([*torque_fields, "rated.voltage", *base_fields]), cause=cause)
             return
 
+        summary = (f"dq model at {shaft_torque:.4g} N·m, {_rpm(speed)}: {nominal.region}, "
+                   f"I = {nominal.current_rms:.4g} A, U = {nominal.line_voltage_rms:.4g} V, "
+                   f"cos φ = {nominal.power_factor:.3f}, load angle "
+                   f"{math.degrees(nominal.load_angle):.1f}°, i_d = {nominal.id / SQRT2:.4g} A "
+                   f"rms, copper loss {nominal.copper_loss:.4g} W.")
+        # a sheet the nominal model fits has no mismatch (the band only widens the ranges);
+        # the saturation corners are solved only when it does not
+        if nominal.feasible and self._fits(sheet, _Band.of(nominal), unc):
+            yield sheet.finding(self, "info", f"{summary} {_join(notes)}".rstrip(), base_fields)
+            return
+        band = _band(machine, torque_em, speed, limit_value, lq_sat, allowance, nominal)
+        estimate = self._estimate(sheet, inputs, torque_fields)
+
         mismatches: list[tuple[str, str, float, float, str]] = []
         spm_below_base = (abs(machine.ld - machine.lq) <= 0.05 * max(machine.ld, machine.lq)
                           and nominal.region == "mtpa")
-        current_known = sheet.get("rated.current")
+        current_known = get("rated.current")
         if (current_known is not None and current_known.value > 0.0 and not spm_below_base
                 and sheet.usable(rule, "rated.current", allow_estimates=True)):
             i_sheet = current_known.value
@@ -479,7 +561,7 @@ class DqOperatingPoint(Relation):
                                    f"point, the sheet states {u_sheet:.4g} V (a rated voltage "
                                    f"far above the need may be the supply class, or Ke or the "
                                    f"voltage on another basis)"))
-        pf_known = sheet.get("rated.power_factor")
+        pf_known = get("rated.power_factor")
         if pf_known is not None and 0.0 < pf_known.value <= 1.0 and sheet.usable(
                 rule, "rated.power_factor", allow_estimates=True):
             pf_sheet = pf_known.value
@@ -490,11 +572,6 @@ class DqOperatingPoint(Relation):
                                    pf_sheet, f"the model gives cos φ {lo:.3f}–{hi:.3f}, the "
                                    f"sheet states {pf_sheet:.3f}"))
 
-        summary = (f"dq model at {shaft_torque:.4g} N·m, {_rpm(speed)}: {nominal.region}, "
-                   f"I = {nominal.current_rms:.4g} A, U = {nominal.line_voltage_rms:.4g} V, "
-                   f"cos φ = {nominal.power_factor:.3f}, load angle "
-                   f"{math.degrees(nominal.load_angle):.1f}°, i_d = {nominal.id / SQRT2:.4g} A "
-                   f"rms, copper loss {nominal.copper_loss:.4g} W.")
         if not mismatches:
             yield sheet.finding(self, "info", f"{summary} {_join(notes)}".rstrip(),
                                 base_fields)
@@ -510,6 +587,14 @@ class DqOperatingPoint(Relation):
                 self, severity, f"{text}. {summary} {_join(notes)}".rstrip(),
                 _unique([name, *base_fields]), expected={name: expected}, actual={name: actual},
                 deviation=actual / expected - 1.0 if expected else None, cause=cause)
+
+    @staticmethod
+    def _estimate(sheet: Sheet, inputs: ModelInputs, torque_fields: list[str]) -> bool:
+        """True when a model input or a compared rated value is an estimate."""
+        get = sheet.values.get
+        return inputs.estimate or any(
+            (k := get(n)) is not None and k.is_estimate
+            for n in ("rated.speed", *torque_fields, "rated.current", "rated.voltage"))
 
     @staticmethod
     def _basis_severity(sheet: Sheet, cause: str | None, severity: str,
@@ -529,8 +614,10 @@ class DqOperatingPoint(Relation):
         factor = 2.0 if basis == "line" else 0.5
         alt = DqMachine(machine.flux_linkage, machine.ld * factor, machine.lq * factor,
                         machine.resistance, machine.pole_pairs)
-        band = _band(alt, torque, speed, limit, lq_sat, allowance)
-        if band.nominal.feasible and self._fits(sheet, band, unc):
+        # the corners matter only when the other basis can make the torque at all
+        alt_nominal = operating_point(alt, torque, speed, limit)
+        if alt_nominal.feasible and self._fits(
+                sheet, _band(alt, torque, speed, limit, lq_sat, allowance, alt_nominal), unc):
             if factor == 0.5:
                 return ("agrees if L_d/L_q are line-to-line values, i.e. twice the phase value; "
                         "state the basis")
@@ -547,17 +634,18 @@ class DqOperatingPoint(Relation):
 
     @staticmethod
     def _fits(sheet: Sheet, band: _Band, unc: float) -> bool:
+        get = sheet.values.get
         checks = 0
         for name, (lo, hi) in (("rated.current", band.current),
                                ("rated.voltage", band.voltage)):
-            known = sheet.get(name)
+            known = get(name)
             if known is None:
                 continue
             checks += 1
             tol = unc + known.uncertainty
             if not lo * (1.0 - tol) <= known.value <= hi * (1.0 + tol):
                 return False
-        pf = sheet.get("rated.power_factor")
+        pf = get("rated.power_factor")
         if pf is not None:
             checks += 1
             slack = power_factor_tolerance(pf.value) + pf.value * (pf.uncertainty + unc)
@@ -602,7 +690,7 @@ class VoltageLimitRelation(Relation):
 
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
-        limit = converter_voltage_limit(sheet)
+        limit = _voltage_limit(sheet)
         if limit is None:
             return
         rated_u = sheet.get("rated.voltage")
@@ -633,7 +721,7 @@ class VoltageLimitRelation(Relation):
             emf = (inputs.machine.flux_linkage * inputs.machine.pole_pairs * speed
                    * math.sqrt(1.5))
             if has_l and torque is not None and torque[0] > 0.0:
-                point = operating_point(inputs.machine, torque[0], speed)
+                point = _operating_point(sheet, inputs.machine, torque[0], speed)
                 need = point.line_voltage_rms
                 what = (f"the dq model needs {need:.0f} V (MTPA, {torque[0]:.4g} N·m at "
                         f"{_rpm(speed)})")
@@ -645,7 +733,8 @@ class VoltageLimitRelation(Relation):
                 continue
             fw = ""
             if has_l and torque is not None and torque[0] > 0.0:
-                fw_point = operating_point(inputs.machine, torque[0], speed, limit.line_rms)
+                fw_point = _operating_point(sheet, inputs.machine, torque[0], speed,
+                                            limit.line_rms)
                 if fw_point.feasible:
                     fw = (f" With field weakening the point needs {fw_point.current_rms:.4g} A "
                           f"(i_d = {fw_point.id / SQRT2:.4g} A rms).")
@@ -704,7 +793,7 @@ class FieldWeakeningSpeed(Relation):
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         inputs = model_inputs(sheet, self.rule)
-        limit = converter_voltage_limit(sheet)
+        limit = _voltage_limit(sheet)
         rated_i = sheet.get("rated.current")
         if inputs is None or limit is None or rated_i is None or rated_i.value <= 0.0:
             return
