@@ -429,7 +429,7 @@ def base_speed(machine: DqMachine, current_rms: float, line_voltage_limit: float
 
 
 class _LoadAngleTorque:
-    """Torque against the load angle at a fixed voltage amplitude and frequency (U/f).
+    """Torque against the angle of a voltage vector of fixed amplitude, at a fixed frequency.
 
     The voltage vector of amplitude u [V peak] leads the q-axis by the load angle d:
     u_d = -u sin d, u_q = u cos d; the steady-state currents follow from the dq equations,
@@ -440,12 +440,13 @@ class _LoadAngleTorque:
 
     and T = 3/2 p (psi i_q + (L_d - L_q) i_d i_q). The terms that do not depend on the angle
     are worked out once; the derivatives in the angle are exact (d/dd of sin and cos).
-    ``target`` is subtracted by :meth:`excess`, for root finding at a given torque.
+    Evaluated term by term as the dq equations read, for the search of the maximum torque
+    on the voltage limit (MTPV); :class:`_UfTorque` is the cheaper form for U/f operation.
     """
 
-    __slots__ = ("det", "dl", "k", "neg_u", "psi", "r", "target", "u", "w_psi", "wld", "wlq")
+    __slots__ = ("det", "dl", "k", "neg_u", "psi", "r", "u", "w_psi", "wld", "wlq")
 
-    def __init__(self, machine: DqMachine, u: float, omega_e: float, target: float = 0.0):
+    def __init__(self, machine: DqMachine, u: float, omega_e: float) -> None:
         r = machine.resistance
         self.r = r
         self.det = r * r + omega_e * omega_e * machine.ld * machine.lq
@@ -454,7 +455,6 @@ class _LoadAngleTorque:
         self.wlq, self.wld = omega_e * machine.lq, omega_e * machine.ld
         self.k = 1.5 * machine.pole_pairs
         self.psi, self.dl = machine.flux_linkage, machine.ld - machine.lq
-        self.target = target
 
     def currents(self, angle: float) -> tuple[float, float]:
         """(i_d, i_q) [A peak] at the load angle."""
@@ -476,19 +476,6 @@ class _LoadAngleTorque:
         """T [N*m] at the load angle [rad]."""
         return self.torque_at(math.sin(angle), math.cos(angle))
 
-    def excess(self, angle: float) -> tuple[float, float]:
-        """(T - target, dT/dd) at the load angle: the function a root finder wants."""
-        r, det, wlq, wld = self.r, self.det, self.wlq, self.wld
-        us, uc = self.u * math.sin(angle), self.u * math.cos(angle)
-        u_d, u_q = -us, uc - self.w_psi  # du_d/dd = -uc, du_q/dd = -us
-        i_d = (r * u_d + wlq * u_q) / det
-        i_q = (r * u_q - wld * u_d) / det
-        di_d = (r * -uc + wlq * u_d) / det
-        di_q = (r * u_d - wld * -uc) / det
-        dl = self.dl
-        t = self.k * (self.psi * i_q + dl * i_d * i_q)
-        return t - self.target, self.k * (self.psi * di_q + dl * (di_d * i_q + i_d * di_q))
-
     def slope_and_curvature(self, angle: float) -> tuple[float, float]:
         """(dT/dd, d2T/dd2) at the load angle: what a search for the maximum wants."""
         r, det, wlq, wld = self.r, self.det, self.wlq, self.wld
@@ -505,12 +492,106 @@ class _LoadAngleTorque:
                 k * (psi * ddi_q + dl * (ddi_d * i_q + 2.0 * di_d * di_q + i_d * ddi_q)))
 
 
+class _UfTorque:
+    """Torque against the load angle at fixed voltage and frequency, as a trigonometric sum.
+
+    With u_d = -U sin d and u_q = U cos d the steady-state currents are affine in sin d and
+    cos d (D = R^2 + w^2 L_d L_q):
+
+    .. math:: i_d = \\frac{-R U \\sin\\delta + \\omega L_q U \\cos\\delta
+        - \\omega^2 L_q \\psi}{D}, \\quad
+        i_q = \\frac{\\omega L_d U \\sin\\delta + R U \\cos\\delta - R \\omega \\psi}{D}
+
+    so T = 3/2 p (psi i_q + (L_d - L_q) i_d i_q) is a trigonometric polynomial of order two,
+
+    .. math:: T(\\delta) = T_0 + T_{1s}\\sin\\delta + T_{1c}\\cos\\delta
+        + T_{2s}\\sin 2\\delta + T_{2c}\\cos 2\\delta
+
+    whose coefficients are worked out once; T and its derivatives in the angle then cost one
+    sine and one cosine each. (With R = 0: T_1s = a, T_2s = b of :func:`pull_out`.)
+    """
+
+    __slots__ = ("t0", "t1c", "t1s", "t2c", "t2s")
+
+    def __init__(self, machine: DqMachine, u: float, omega_e: float) -> None:
+        r, ld, lq, psi = machine.resistance, machine.ld, machine.lq, machine.flux_linkage
+        det = r * r + omega_e * omega_e * ld * lq
+        # i_d = a_d sin + b_d cos + c_d, i_q = a_q sin + b_q cos + c_q
+        a_d, b_d, c_d = -r * u / det, omega_e * lq * u / det, -omega_e * omega_e * lq * psi / det
+        a_q, b_q, c_q = omega_e * ld * u / det, r * u / det, -r * omega_e * psi / det
+        k = 1.5 * machine.pole_pairs
+        k_dl = k * (ld - lq)
+        # i_d i_q with sin^2 = (1 - cos 2d)/2, cos^2 = (1 + cos 2d)/2, sin cos = sin 2d / 2
+        self.t0 = k * psi * c_q + k_dl * (0.5 * (a_d * a_q + b_d * b_q) + c_d * c_q)
+        self.t1s = k * psi * a_q + k_dl * (a_d * c_q + c_d * a_q)
+        self.t1c = k * psi * b_q + k_dl * (b_d * c_q + c_d * b_q)
+        self.t2s = 0.5 * k_dl * (a_d * b_q + b_d * a_q)
+        self.t2c = 0.5 * k_dl * (b_d * b_q - a_d * a_q)
+
+    def torque(self, angle: float) -> float:
+        """T [N*m] at the load angle [rad]."""
+        s, c = math.sin(angle), math.cos(angle)
+        return (self.t0 + self.t1s * s + self.t1c * c + self.t2s * (2.0 * s * c)
+                + self.t2c * ((c - s) * (c + s)))
+
+    def peak_from(self, angle: float) -> float | None:
+        """Newton on dT/d(angle) = 0 from ``angle``; None when it leaves a maximum's basin.
+
+        Steps are clipped to 0.2 rad; converged when a step is below 1e-13 rad.
+        """
+        t1s, t1c, t2s, t2c = self.t1s, self.t1c, self.t2s, self.t2c
+        for _ in range(30):
+            s, c = math.sin(angle), math.cos(angle)
+            s2, c2 = 2.0 * s * c, (c - s) * (c + s)
+            curvature = -(t1s * s + t1c * c) - 4.0 * (t2s * s2 + t2c * c2)
+            if curvature >= 0.0:
+                return None
+            slope = t1s * c - t1c * s + 2.0 * (t2s * c2 - t2c * s2)
+            step = max(-0.2, min(0.2, slope / curvature))
+            angle -= step
+            if abs(step) < 1e-13:
+                return angle
+        return angle
+
+    def angle_at(self, torque: float, lo: float, hi: float, start: float) -> float:
+        """Load angle in [lo, hi] where T = ``torque``, T rising there (T(lo) <= torque).
+
+        Newton from ``start``, kept inside the bracket that each step narrows (bisection when a
+        step would leave it); converged when a step is below the relative tolerance.
+        """
+        t0, t1s, t1c, t2s, t2c = self.t0, self.t1s, self.t1c, self.t2s, self.t2c
+        x = start if lo < start < hi else hi
+        for _ in range(_MAX_ITER):
+            s, c = math.sin(x), math.cos(x)
+            s2, c2 = 2.0 * s * c, (c - s) * (c + s)
+            excess = t0 + t1s * s + t1c * c + t2s * s2 + t2c * c2 - torque
+            if excess == 0.0:
+                return x
+            if excess > 0.0:
+                hi = x
+            else:
+                lo = x
+            slope = t1s * c - t1c * s + 2.0 * (t2s * c2 - t2c * s2)
+            if slope > 0.0:
+                step = excess / slope
+                if abs(step) <= _REL_TOL * (abs(x) + abs(hi - lo) * 1e-3 + 1e-300):
+                    return x - step
+                if lo < x - step < hi:
+                    x -= step
+                    continue
+            x = 0.5 * (lo + hi)
+            if hi - lo <= _REL_TOL * (abs(lo) + abs(hi)):
+                return x
+        return x
+
+
 def pull_out(machine: DqMachine, line_voltage: float, speed: float) -> tuple[float, float]:
     """Pull-out torque [N*m] and its load angle [rad] at fixed voltage and frequency (U/f).
 
     With R = 0 the torque is T = a sin d + b sin 2d, a = 3/2 p psi U/(w L_d),
     b = 3/4 p U^2/w^2 (1/L_q - 1/L_d); its maximum is at cos d = 4b/(a + sqrt(a^2 + 32 b^2)).
-    That is the start of a Newton iteration on dT/dd = 0 with R included.
+    That is the start of a Newton iteration on dT/dd = 0 with R included; should it leave the
+    maximum's basin, a scan of the full circle finds the maximum instead.
     """
     omega_e = machine.pole_pairs * speed
     u = peak_phase_from_line_rms(line_voltage)
@@ -518,14 +599,14 @@ def pull_out(machine: DqMachine, line_voltage: float, speed: float) -> tuple[flo
     a = k * machine.flux_linkage * u / (omega_e * machine.ld)
     b = 0.5 * k * u * u / (omega_e * omega_e) * (1.0 / machine.lq - 1.0 / machine.ld)
     start = math.acos(max(-1.0, min(1.0, 4.0 * b / (a + math.sqrt(a * a + 32.0 * b * b)))))
-    curve = _LoadAngleTorque(machine, u, omega_e)
+    curve = _UfTorque(machine, u, omega_e)
     t_start = curve.torque(start)
-    angle = _newton_maximum(curve, start)
+    angle = curve.peak_from(start)
     if angle is not None:
         torque = curve.torque(angle)
         if torque >= t_start:
             return torque, angle
-    return _scan_maximum(curve)
+    return _scan_maximum(_LoadAngleTorque(machine, u, omega_e))
 
 
 def _newton_maximum(curve: _LoadAngleTorque, angle: float) -> float | None:
@@ -570,25 +651,21 @@ def open_loop_load_angle(machine: DqMachine, line_voltage: float, speed: float,
 
     ``pull_out_point`` is the result of :func:`pull_out` when the caller has it already.
     """
-    omega_e = machine.pole_pairs * speed
-    u = peak_phase_from_line_rms(line_voltage)
     t_max, angle_max = pull_out_point or pull_out(machine, line_voltage, speed)
     if torque > t_max:
         return None
-    hi = angle_max
-    curve = _LoadAngleTorque(machine, u, omega_e, target=torque)
-    f = curve.excess
-
+    curve = _UfTorque(machine, peak_phase_from_line_rms(line_voltage),
+                      machine.pole_pairs * speed)
     # half a turn back from pull-out the machine generates; else take the torque minimum
     lo = angle_max - math.pi
-    if f(lo)[0] > 0.0:
+    if curve.torque(lo) > torque:
         lo = min((angle_max - 2.0 * math.pi * j / 48.0 for j in range(1, 48)),
-                 key=lambda x: f(x)[0])
-        if f(lo)[0] > 0.0:
+                 key=curve.torque)
+        if curve.torque(lo) > torque:
             return None
     # start: the R = 0 SPM answer asin(T/T_max), stretched to the pull-out angle
     guess = math.asin(max(0.0, min(1.0, torque / t_max))) * angle_max / (0.5 * math.pi)
-    return _bracketed_newton(f, lo, hi, guess)
+    return curve.angle_at(torque, lo, angle_max, guess)
 
 
 def _max_torque_on_voltage_limit(machine: DqMachine, u: float,

@@ -284,10 +284,11 @@ def _rated_torque(sheet: Sheet) -> tuple[float, list[str], float] | None:
 
 
 def _point_torque(sheet: Sheet, prefix: str) -> tuple[float, list[str], float] | None:
-    torque = sheet.get(f"{prefix}.torque")
+    get = sheet.values.get
+    torque = get(f"{prefix}.torque")
     if torque is not None:
         return torque.value, [f"{prefix}.torque"], torque.uncertainty
-    power, speed = sheet.get(f"{prefix}.power"), sheet.get(f"{prefix}.speed")
+    power, speed = get(f"{prefix}.power"), get(f"{prefix}.speed")
     if power is not None and speed is not None and speed.value > 0.0:
         return (power.value / speed.value, [f"{prefix}.power", f"{prefix}.speed"],
                 power.uncertainty + speed.uncertainty)
@@ -322,12 +323,13 @@ def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
       deliverable, which is the limit used (the assumption is stated in the finding).
     - Neither: the rated voltage, taking the sheet's rated point as where the limit is reached.
     """
-    dc = sheet.get("supply.dc_link_voltage")
+    get = sheet.values.get
+    dc = get("supply.dc_link_voltage")
     if dc is not None and dc.value > 0.0:
         return VoltageLimit(svpwm_line_voltage(dc.value),
                             f"space-vector modulation from the stated DC link "
                             f"{dc.value:.0f} V: U_dc/√2", ["supply.dc_link_voltage"], True)
-    mains = sheet.get("supply.mains_voltage")
+    mains = get("supply.mains_voltage")
     if mains is not None and mains.value > 0.0:
         u_dc = DIODE_BRIDGE_DC_RATIO * mains.value
         return VoltageLimit(mains.value,
@@ -335,7 +337,7 @@ def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
                             f"= {u_dc:.0f} V under load, linear SVPWM up to "
                             f"{svpwm_line_voltage(u_dc):.0f} V; assumed that overmodulation "
                             f"delivers up to the mains voltage", ["supply.mains_voltage"], True)
-    rated = sheet.get("rated.voltage")
+    rated = get("rated.voltage")
     if rated is not None and rated.value > 0.0:
         return VoltageLimit(rated.value, "no supply stated: the rated voltage is taken as the "
                             "voltage limit (the rated point is where the limit is reached)",
@@ -345,10 +347,11 @@ def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
 
 def dc_link_voltage(sheet: Sheet) -> tuple[float, str, list[str]] | None:
     """DC-link voltage [V] a tripped converter's capacitors are charged to: stated or √2·U_mains."""
-    dc = sheet.get("supply.dc_link_voltage")
+    get = sheet.values.get
+    dc = get("supply.dc_link_voltage")
     if dc is not None and dc.value > 0.0:
         return dc.value, "stated DC link", ["supply.dc_link_voltage"]
-    mains = sheet.get("supply.mains_voltage")
+    mains = get("supply.mains_voltage")
     if mains is not None and mains.value > 0.0:
         return (SQRT2 * mains.value, f"√2·U_mains = {SQRT2 * mains.value:.0f} V (DC link of a "
                 f"diode front end at no load)", ["supply.mains_voltage"])
@@ -693,7 +696,7 @@ class VoltageLimitRelation(Relation):
         limit = _voltage_limit(sheet)
         if limit is None:
             return
-        rated_u = sheet.get("rated.voltage")
+        rated_u = sheet.values.get("rated.voltage")
         if (limit.from_supply and rated_u is not None
                 and rated_u.value > limit.line_rms * (1.0 + rated_u.uncertainty + 1e-9)):
             yield sheet.finding(
@@ -707,39 +710,38 @@ class VoltageLimitRelation(Relation):
         inputs = model_inputs(sheet, self.rule, need_inductances=False)
         if inputs is None:
             return
-        has_l = inputs.machine.ld > 0.0 and inputs.machine.lq > 0.0
+        machine = inputs.machine
+        has_l = machine.ld > 0.0 and machine.lq > 0.0
+        get = sheet.values.get
         # with no supply stated the limit is the rated voltage itself; without a hot back-EMF
         # the rated point would be judged with magnets at 20 °C, which overstates the EMF at
         # rated load: leave that comparison to voltage-margin, which says which it used
         prefixes = ["rated"] if limit.from_supply or sheet.has("emf.constant_hot") else []
         for prefix in [*prefixes, *_point_prefixes(sheet)]:
-            speed_known = sheet.get(f"{prefix}.speed")
+            speed_known = get(f"{prefix}.speed")
             if speed_known is None or speed_known.value <= 0.0:
                 continue
             speed = speed_known.value
             torque = _point_torque(sheet, prefix)
-            emf = (inputs.machine.flux_linkage * inputs.machine.pole_pairs * speed
-                   * math.sqrt(1.5))
-            if has_l and torque is not None and torque[0] > 0.0:
-                point = _operating_point(sheet, inputs.machine, torque[0], speed)
-                need = point.line_voltage_rms
-                what = (f"the dq model needs {need:.0f} V (MTPA, {torque[0]:.4g} N·m at "
-                        f"{_rpm(speed)})")
-            else:
-                need = emf
-                what = f"the back-EMF alone is {emf:.0f} V at {_rpm(speed)}"
+            emf = machine.flux_linkage * machine.pole_pairs * speed * math.sqrt(1.5)
+            modelled = has_l and torque is not None and torque[0] > 0.0
+            need = (_operating_point(sheet, machine, torque[0], speed).line_voltage_rms
+                    if modelled and torque is not None else emf)
             margin = inputs.uncertainty + speed_known.uncertainty
             if need <= limit.line_rms * (1.0 + margin):
                 continue
             fw = ""
-            if has_l and torque is not None and torque[0] > 0.0:
-                fw_point = _operating_point(sheet, inputs.machine, torque[0], speed,
-                                            limit.line_rms)
+            if modelled and torque is not None:
+                what = (f"the dq model needs {need:.0f} V (MTPA, {torque[0]:.4g} N·m at "
+                        f"{_rpm(speed)})")
+                fw_point = _operating_point(sheet, machine, torque[0], speed, limit.line_rms)
                 if fw_point.feasible:
                     fw = (f" With field weakening the point needs {fw_point.current_rms:.4g} A "
                           f"(i_d = {fw_point.id / SQRT2:.4g} A rms).")
                 else:
                     fw = " Even field weakening cannot make this torque at this speed."
+            else:
+                what = f"the back-EMF alone is {emf:.0f} V at {_rpm(speed)}"
             cause = None
             if emf > limit.line_rms:
                 cause = (f"the back-EMF at the magnet temperature used ({emf:.0f} V at "
@@ -757,6 +759,13 @@ class VoltageLimitRelation(Relation):
 
 
 # --- field-weakening-speed ---------------------------------------------------------------------
+def _reach_text(reach: float) -> str:
+    """A reachable speed [rad/s] as the finding words it."""
+    if math.isinf(reach):
+        return "not voltage-limited (current at or above ψ/L_d)"
+    return "above 100000 r/min" if reach > 1e5 * RPM else _rpm(reach)
+
+
 @register
 class FieldWeakeningSpeed(Relation):
     """The claimed maximum speed must be reachable within the voltage limit.
@@ -792,23 +801,19 @@ class FieldWeakeningSpeed(Relation):
 
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
+        get = sheet.values.get
         inputs = model_inputs(sheet, self.rule)
         limit = _voltage_limit(sheet)
-        rated_i = sheet.get("rated.current")
+        rated_i = get("rated.current")
         if inputs is None or limit is None or rated_i is None or rated_i.value <= 0.0:
             return
         machine = inputs.machine
         i_ch = characteristic_current(machine) / SQRT2
         reach_rated = max_speed_at_current(machine, rated_i.value, limit.line_rms)
-        peak_i = sheet.get("limits.peak_current")
+        peak_i = get("limits.peak_current")
         reach_peak = (max_speed_at_current(machine, peak_i.value, limit.line_rms)
                       if peak_i is not None and peak_i.value > 0.0 else None)
-
-        def text(reach: float) -> str:
-            if math.isinf(reach):
-                return "not voltage-limited (current at or above ψ/L_d)"
-            return "above 100000 r/min" if reach > 1e5 * RPM else _rpm(reach)
-
+        text = _reach_text
         facts = (f"Characteristic current ψ/L_d = {i_ch:.4g} A rms; highest speed within "
                  f"{limit.line_rms:.0f} V at rated current {rated_i.value:.4g} A: "
                  f"{text(reach_rated)}")
@@ -817,7 +822,7 @@ class FieldWeakeningSpeed(Relation):
         facts += f" (magnets at the rated temperature; {limit.how}). {_join(inputs.notes)}"
         facts = facts.rstrip()
         fields = ["limits.max_speed", "rated.current", *limit.fields, *inputs.fields]
-        max_speed = sheet.get("limits.max_speed")
+        max_speed = get("limits.max_speed")
         if max_speed is None or max_speed.value <= 0.0:
             yield sheet.finding(self, "info", facts, fields[1:])
             return
@@ -885,7 +890,7 @@ class OverspeedEmf(Relation):
         u_dc, dc_how, dc_fields = dc
         crossing = speed_at_back_emf(ke, u_dc)
         temperature_note = f" ({note})" if note else ""
-        max_speed = sheet.get("limits.max_speed")
+        max_speed = sheet.values.get("limits.max_speed")
         fields = [ke_field, *dc_fields]
         if max_speed is None or max_speed.value <= 0.0:
             yield sheet.finding(
@@ -896,7 +901,7 @@ class OverspeedEmf(Relation):
             return
         peak = peak_line_back_emf(ke, max_speed.value)
         fields.insert(0, "limits.max_speed")
-        k = sheet.get(ke_field)
+        k = sheet.values.get(ke_field)
         margin = (k.uncertainty if k is not None else 0.0) + max_speed.uncertainty
         if peak <= u_dc * (1.0 + margin):
             yield sheet.finding(
@@ -922,7 +927,7 @@ class OverspeedEmf(Relation):
 
     @staticmethod
     def _cold_ke(sheet: Sheet) -> tuple[str, float | None, str | None]:
-        cold = sheet.get("emf.constant_cold")
+        cold = sheet.values.get("emf.constant_cold")
         if cold is not None:
             return "emf.constant_cold", cold.value, cold.note
         pairs = _pole_pairs(sheet)
@@ -970,8 +975,9 @@ class PullOutMargin(Relation):
 
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
+        get = sheet.values.get
         inputs = model_inputs(sheet, self.rule)
-        rated_u, speed = sheet.get("rated.voltage"), sheet.get("rated.speed")
+        rated_u, speed = get("rated.voltage"), get("rated.speed")
         torque = _rated_torque(sheet)
         if (inputs is None or rated_u is None or speed is None or torque is None
                 or rated_u.value <= 0.0 or speed.value <= 0.0 or torque[0] <= 0.0):
@@ -1041,20 +1047,21 @@ class ShortCircuitCurrent(Relation):
         inputs = model_inputs(sheet, self.rule)
         if inputs is None:
             return
-        reference = sheet.get("limits.peak_current")
+        get = sheet.values.get
+        reference = get("limits.peak_current")
         name = "limits.peak_current"
         if reference is None or reference.value <= 0.0:
-            reference, name = sheet.get("rated.current"), "rated.current"
+            reference, name = get("rated.current"), "rated.current"
         if reference is None or reference.value <= 0.0:
             return
         i_sc = characteristic_current(inputs.machine) / SQRT2
         margin = inputs.uncertainty + reference.uncertainty
+        if i_sc <= reference.value * (1.0 + margin):
+            return
         fields = [name, *inputs.fields]
         text = (f"Steady-state short-circuit current ψ/L_d = {i_sc:.4g} A rms (magnets at the "
                 f"rated temperature) against the {name.split('.')[-1].replace('_', ' ')} "
                 f"{reference.value:.4g} A. {_join(inputs.notes)}")
-        if i_sc <= reference.value * (1.0 + margin):
-            return
         if name == "rated.current":
             # ψ/L_d above rated current is the normal case (it equals I_rated/x with the
             # per-unit reactance x < 1): a note asking for the peak current, not a warning
