@@ -593,13 +593,17 @@ def pull_out(machine: DqMachine, line_voltage: float, speed: float) -> tuple[flo
     That is the start of a Newton iteration on dT/dd = 0 with R included; should it leave the
     maximum's basin, a scan of the full circle finds the maximum instead.
     """
-    omega_e = machine.pole_pairs * speed
     u = peak_phase_from_line_rms(line_voltage)
+    omega_e = machine.pole_pairs * speed
+    return _pull_out(machine, u, omega_e, _UfTorque(machine, u, omega_e))
+
+
+def _pull_out(machine: DqMachine, u: float, omega_e: float,
+              curve: _UfTorque) -> tuple[float, float]:
     k = 1.5 * machine.pole_pairs
     a = k * machine.flux_linkage * u / (omega_e * machine.ld)
     b = 0.5 * k * u * u / (omega_e * omega_e) * (1.0 / machine.lq - 1.0 / machine.ld)
     start = math.acos(max(-1.0, min(1.0, 4.0 * b / (a + math.sqrt(a * a + 32.0 * b * b)))))
-    curve = _UfTorque(machine, u, omega_e)
     t_start = curve.torque(start)
     angle = curve.peak_from(start)
     if angle is not None:
@@ -651,11 +655,32 @@ def open_loop_load_angle(machine: DqMachine, line_voltage: float, speed: float,
 
     ``pull_out_point`` is the result of :func:`pull_out` when the caller has it already.
     """
-    t_max, angle_max = pull_out_point or pull_out(machine, line_voltage, speed)
+    u = peak_phase_from_line_rms(line_voltage)
+    omega_e = machine.pole_pairs * speed
+    curve = _UfTorque(machine, u, omega_e)
+    t_max, angle_max = pull_out_point or _pull_out(machine, u, omega_e, curve)
+    return _load_angle(curve, torque, t_max, angle_max)
+
+
+def open_loop_operation(machine: DqMachine, line_voltage: float, speed: float,
+                        torque: float) -> tuple[float, float, float | None]:
+    """:func:`pull_out` and :func:`open_loop_load_angle` at once, from one torque curve.
+
+    Returns the pull-out torque [N*m], its load angle [rad] and the load angle at ``torque``
+    [rad] (None beyond pull-out).
+    """
+    u = peak_phase_from_line_rms(line_voltage)
+    omega_e = machine.pole_pairs * speed
+    curve = _UfTorque(machine, u, omega_e)
+    t_max, angle_max = _pull_out(machine, u, omega_e, curve)
+    return t_max, angle_max, _load_angle(curve, torque, t_max, angle_max)
+
+
+def _load_angle(curve: _UfTorque, torque: float, t_max: float,
+                angle_max: float) -> float | None:
+    """Load angle of the stable point at ``torque`` below the pull-out point (t_max, angle_max)."""
     if torque > t_max:
         return None
-    curve = _UfTorque(machine, peak_phase_from_line_rms(line_voltage),
-                      machine.pole_pairs * speed)
     # half a turn back from pull-out the machine generates; else take the torque minimum
     lo = angle_max - math.pi
     if curve.torque(lo) > torque:

@@ -25,10 +25,9 @@ from sheetlint.physics.dq import (
     flux_linkage_from_ke,
     max_speed_at_current,
     max_torque_at_speed,
-    open_loop_load_angle,
+    open_loop_operation,
     operating_point,
     peak_line_back_emf,
-    pull_out,
     speed_at_back_emf,
     svpwm_line_voltage,
 )
@@ -159,8 +158,9 @@ class _SheetMemo:
     The engine checks one sheet with all relations, in registry order, before the next one,
     so one memo is kept at a time. It holds the sheet itself (an identity test cannot be
     fooled by a recycled id) and the number of its values (a value added in between starts a
-    fresh memo). Operating points are memoised by all their arguments, so a memo can never
-    hand a relation a point of other inputs.
+    fresh memo). Operating points are memoised by all their arguments (the machine by
+    identity, and each entry keeps its machine alive), so a memo can never hand a relation a
+    point of other inputs.
     """
 
     __slots__ = ("inputs", "own_rules", "points", "sheet", "size", "voltage_limit",
@@ -171,7 +171,8 @@ class _SheetMemo:
         self.size = len(sheet.values)
         self.own_rules = {k.rule for k in sheet.values.values() if k.rule is not None}
         self.inputs: dict[tuple[str, str, bool], ModelInputs | None] = {}
-        self.points: dict[tuple[DqMachine, float, float, float | None], OperatingPoint] = {}
+        self.points: dict[tuple[int, float, float, float | None],
+                          tuple[DqMachine, OperatingPoint]] = {}
         self.voltage_limit: VoltageLimit | None = None
         self.voltage_limit_known = False
 
@@ -219,15 +220,16 @@ def _operating_point(sheet: Sheet, machine: DqMachine, torque: float, speed: flo
     rated voltage to it and ``voltage-limit`` compares it with the converter's voltage.
     """
     points = _sheet_memo(sheet).points
-    key = (machine, torque, speed, line_voltage_limit)
-    point = points.get(key)
-    if point is None:
-        mtpa_key = (machine, torque, speed, None)
-        mtpa = points.get(mtpa_key)
-        if mtpa is None:
-            mtpa = points[mtpa_key] = operating_point(machine, torque, speed)
-        point = points[key] = operating_point(machine, torque, speed, line_voltage_limit,
-                                              mtpa=mtpa)
+    key = (id(machine), torque, speed, line_voltage_limit)
+    entry = points.get(key)
+    if entry is not None:
+        return entry[1]
+    mtpa_key = (id(machine), torque, speed, None)
+    entry = points.get(mtpa_key)
+    if entry is None:
+        entry = points[mtpa_key] = (machine, operating_point(machine, torque, speed))
+    point = operating_point(machine, torque, speed, line_voltage_limit, mtpa=entry[1])
+    points[key] = (machine, point)
     return point
 
 
@@ -385,13 +387,6 @@ class _Band:
     voltage: tuple[float, float]
     power_factor: tuple[float, float]
 
-    @classmethod
-    def of(cls, point: OperatingPoint) -> _Band:
-        """The band of one point: each range is the point's own value."""
-        return cls(point, (point.current_rms, point.current_rms),
-                   (point.line_voltage_rms, point.line_voltage_rms),
-                   (point.power_factor, point.power_factor))
-
 
 def _band(machine: DqMachine, torque: float, speed: float, limit: float | None,
           lq_saturation: float, torque_allowance: float,
@@ -528,7 +523,10 @@ class DqOperatingPoint(Relation):
                    f"rms, copper loss {nominal.copper_loss:.4g} W.")
         # a sheet the nominal model fits has no mismatch (the band only widens the ranges);
         # the saturation corners are solved only when it does not
-        if nominal.feasible and self._fits(sheet, _Band.of(nominal), unc):
+        if nominal.feasible and self._fits(
+                sheet, (nominal.current_rms, nominal.current_rms),
+                (nominal.line_voltage_rms, nominal.line_voltage_rms),
+                (nominal.power_factor, nominal.power_factor), unc):
             yield sheet.finding(self, "info", f"{summary} {_join(notes)}".rstrip(), base_fields)
             return
         band = _band(machine, torque_em, speed, limit_value, lq_sat, allowance, nominal)
@@ -619,8 +617,10 @@ class DqOperatingPoint(Relation):
                         machine.resistance, machine.pole_pairs)
         # the corners matter only when the other basis can make the torque at all
         alt_nominal = operating_point(alt, torque, speed, limit)
-        if alt_nominal.feasible and self._fits(
-                sheet, _band(alt, torque, speed, limit, lq_sat, allowance, alt_nominal), unc):
+        band = (_band(alt, torque, speed, limit, lq_sat, allowance, alt_nominal)
+                if alt_nominal.feasible else None)
+        if band is not None and self._fits(sheet, band.current, band.voltage,
+                                           band.power_factor, unc):
             if factor == 0.5:
                 return ("agrees if L_d/L_q are line-to-line values, i.e. twice the phase value; "
                         "state the basis")
@@ -636,11 +636,12 @@ class DqOperatingPoint(Relation):
         return None
 
     @staticmethod
-    def _fits(sheet: Sheet, band: _Band, unc: float) -> bool:
+    def _fits(sheet: Sheet, current: tuple[float, float], voltage: tuple[float, float],
+              power_factor: tuple[float, float], unc: float) -> bool:
+        """True when every stated rated current, voltage and power factor is in its range."""
         get = sheet.values.get
         checks = 0
-        for name, (lo, hi) in (("rated.current", band.current),
-                               ("rated.voltage", band.voltage)):
+        for name, (lo, hi) in (("rated.current", current), ("rated.voltage", voltage)):
             known = get(name)
             if known is None:
                 continue
@@ -652,7 +653,7 @@ class DqOperatingPoint(Relation):
         if pf is not None:
             checks += 1
             slack = power_factor_tolerance(pf.value) + pf.value * (pf.uncertainty + unc)
-            if not band.power_factor[0] - slack <= pf.value <= band.power_factor[1] + slack:
+            if not power_factor[0] - slack <= pf.value <= power_factor[1] + slack:
                 return False
         return checks > 0
 
@@ -983,10 +984,8 @@ class PullOutMargin(Relation):
                 or rated_u.value <= 0.0 or speed.value <= 0.0 or torque[0] <= 0.0):
             return
         min_ratio = float(sheet.option(self.rule, "min_ratio", 1.35))
-        pull_out_point = pull_out(inputs.machine, rated_u.value, speed.value)
-        t_po = pull_out_point[0]
-        angle = open_loop_load_angle(inputs.machine, rated_u.value, speed.value, torque[0],
-                                     pull_out_point)
+        t_po, _, angle = open_loop_operation(inputs.machine, rated_u.value, speed.value,
+                                             torque[0])
         fields = ["rated.voltage", "rated.speed", *torque[1], *inputs.fields]
         closed = ("Closed-loop (field-oriented) control holds the angle itself; this margin "
                   "concerns open-loop U/f operation.")
