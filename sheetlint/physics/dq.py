@@ -212,12 +212,14 @@ def mtpa_currents_for_torque(machine: DqMachine, torque: float) -> tuple[float, 
     if delta_l == 0.0:
         return 0.0, sign * target / psi
     i_q = min(target / psi, math.sqrt(target / abs(delta_l)))
+    psi2, two_dl, four_dl2 = psi * psi, 2.0 * delta_l, 4.0 * delta_l * delta_l
     for _ in range(_MAX_ITER):
-        root = math.sqrt(psi * psi + 4.0 * delta_l * delta_l * i_q * i_q)
-        i_d = 2.0 * delta_l * i_q * i_q / (psi + root)
-        f = i_q * (psi + delta_l * i_d) - target
-        di_d = 2.0 * delta_l * i_q / root
-        slope = psi + delta_l * i_d + delta_l * i_q * di_d
+        root = math.sqrt(psi2 + four_dl2 * i_q * i_q)
+        two_dl_iq = two_dl * i_q
+        i_d = two_dl_iq * i_q / (psi + root)  # _mtpa_id_for_iq
+        flux = psi + delta_l * i_d
+        f = i_q * flux - target
+        slope = flux + delta_l * i_q * (two_dl_iq / root)  # d(i_q flux)/di_q on the curve
         step = f / slope
         i_q_new = i_q - step
         if i_q_new <= 0.0:
@@ -329,7 +331,9 @@ def solve_point(machine: DqMachine, i_d: float, i_q: float, speed: float,
                 region: str) -> OperatingPoint:
     """All derived quantities of a given current vector at a mechanical speed [rad/s]."""
     omega_e = machine.pole_pairs * speed
-    u_d, u_q = stator_voltage(machine, i_d, i_q, omega_e)
+    psi, ld, lq, r = machine.flux_linkage, machine.ld, machine.lq, machine.resistance
+    u_d = r * i_d - omega_e * lq * i_q  # stator_voltage
+    u_q = r * i_q + omega_e * (ld * i_d + psi)
     i_mag = math.hypot(i_d, i_q)
     u_mag = math.hypot(u_d, u_q)
     p_in = 1.5 * (u_d * i_d + u_q * i_q)
@@ -339,13 +343,10 @@ def solve_point(machine: DqMachine, i_d: float, i_q: float, speed: float,
         leading = (u_q * i_d - u_d * i_q) < 0.0
     else:
         power_factor, leading = 1.0, False
-    return OperatingPoint(
-        id=i_d, iq=i_q, ud=u_d, uq=u_q,
-        torque=electromagnetic_torque(machine, i_d, i_q), speed=speed,
-        current_rms=i_mag / SQRT2, line_voltage_rms=u_mag * SQRT_3_2,
-        power_factor=min(power_factor, 1.0), leading=leading,
-        load_angle=math.atan2(-u_d, u_q),
-        copper_loss=1.5 * machine.resistance * i_mag * i_mag, input_power=p_in, region=region)
+    torque = 1.5 * machine.pole_pairs * i_q * (psi + (ld - lq) * i_d)  # electromagnetic_torque
+    return OperatingPoint(i_d, i_q, u_d, u_q, torque, speed, i_mag / SQRT2, u_mag * SQRT_3_2,
+                          min(power_factor, 1.0), leading, math.atan2(-u_d, u_q),
+                          1.5 * r * i_mag * i_mag, p_in, region)
 
 
 def operating_point(machine: DqMachine, torque: float, speed: float,

@@ -256,8 +256,12 @@ def _model_inputs(sheet: Sheet, rule: str, temperature: str,
         lq_known = lq_given or ld_given
         assert ld_known is not None and lq_known is not None
         ld, lq = ld_known.value, lq_known.value
-        l_fields = [name for name, known in (("circuit.ld", ld_given), ("circuit.lq", lq_given))
-                    if known is not None]
+        if ld_given is None:
+            l_fields = ["circuit.lq"]
+        elif lq_given is None:
+            l_fields = ["circuit.ld"]
+        else:
+            l_fields = ["circuit.ld", "circuit.lq"]
         if not sheet.usable(rule, *l_fields, allow_estimates=True):
             return None
         l_estimate = ld_known.is_estimate or lq_known.is_estimate
@@ -268,7 +272,11 @@ def _model_inputs(sheet: Sheet, rule: str, temperature: str,
         return None
     if not (psi > 0.0 and math.isfinite(psi)):
         return None
-    notes = [n for n in (flux_note, r_note) if n]
+    notes = []
+    if flux_note:
+        notes.append(flux_note)
+    if r_note:
+        notes.append(r_note)
     if ld_given is not None and lq_given is None:
         notes.append("only L_d given: L_q = L_d assumed")
     if lq_given is not None and ld_given is None:
@@ -366,7 +374,7 @@ def _point_prefixes(sheet: Sheet) -> list[str]:
         count = 0
         while sheet.has(f"points[{count}].speed") or sheet.has(f"points[{count}].torque"):
             count += 1
-    return [f"points[{j}]" for j in range(min(count, 1000))]
+    return [f"points[{j}]" for j in range(min(count, 1000))] if count else []
 
 
 def _unique(names: list[str]) -> list[str]:
