@@ -12,6 +12,7 @@ import functools
 import math
 from collections.abc import Callable, Iterator
 from dataclasses import dataclass, field
+from typing import Any, TypeVar
 
 from sheetlint.cautions import FINDING_CAUTION as CAUTION
 from sheetlint.engine.core import Finding, Relation, Sheet
@@ -45,6 +46,7 @@ CONVERTER_SOURCE = ("six-pulse diode bridge U_dc = 3·√2/π·U_LL and space-ve
 
 
 CheckMethod = Callable[[Relation, Sheet], Iterator[Finding]]
+_T = TypeVar("_T")
 
 
 def _guarded(check: CheckMethod) -> CheckMethod:
@@ -153,7 +155,8 @@ def _resistance(sheet: Sheet) -> tuple[float, str | None, str | None, bool, floa
 
 
 class _SheetMemo:
-    """What the machine relations of one sheet share, each worked out once.
+    """What the machine relations of one sheet share, each worked out once: the model inputs,
+    the solved operating points and results of the sheet alone (voltage limit, rated torque).
 
     The engine checks one sheet with all relations, in registry order, before the next one,
     so one memo is kept at a time. It holds the sheet itself (an identity test cannot be
@@ -163,8 +166,7 @@ class _SheetMemo:
     point of other inputs.
     """
 
-    __slots__ = ("inputs", "own_rules", "points", "sheet", "size", "voltage_limit",
-                 "voltage_limit_known")
+    __slots__ = ("inputs", "own_rules", "points", "shared", "sheet", "size")
 
     def __init__(self, sheet: Sheet) -> None:
         self.sheet = sheet
@@ -173,8 +175,15 @@ class _SheetMemo:
         self.inputs: dict[tuple[str, str, bool], ModelInputs | None] = {}
         self.points: dict[tuple[int, float, float, float | None],
                           tuple[DqMachine, OperatingPoint]] = {}
-        self.voltage_limit: VoltageLimit | None = None
-        self.voltage_limit_known = False
+        self.shared: dict[Callable[[Sheet], Any], Any] = {}
+
+    def once(self, compute: Callable[[Sheet], _T]) -> _T:
+        """``compute(sheet)``, worked out on the first call only."""
+        shared = self.shared
+        if compute in shared:
+            return shared[compute]
+        value = shared[compute] = compute(self.sheet)
+        return value
 
 
 _memo: _SheetMemo | None = None
@@ -289,7 +298,11 @@ def _model_inputs(sheet: Sheet, rule: str, temperature: str,
 
 
 def _rated_torque(sheet: Sheet) -> tuple[float, list[str], float] | None:
-    """Rated shaft torque [N*m] (given, or P/omega), its fields and uncertainty."""
+    """Rated shaft torque [N*m] (given, or P/omega), its fields and uncertainty; once per sheet."""
+    return _sheet_memo(sheet).once(_rated_point_torque)
+
+
+def _rated_point_torque(sheet: Sheet) -> tuple[float, list[str], float] | None:
     return _point_torque(sheet, "rated")
 
 
@@ -317,11 +330,7 @@ class VoltageLimit:
 
 def _voltage_limit(sheet: Sheet) -> VoltageLimit | None:
     """:func:`converter_voltage_limit`, worked out once per sheet."""
-    memo = _sheet_memo(sheet)
-    if not memo.voltage_limit_known:
-        memo.voltage_limit = converter_voltage_limit(sheet)
-        memo.voltage_limit_known = True
-    return memo.voltage_limit
+    return _sheet_memo(sheet).once(converter_voltage_limit)
 
 
 def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
@@ -731,7 +740,7 @@ class VoltageLimitRelation(Relation):
             if speed_known is None or speed_known.value <= 0.0:
                 continue
             speed = speed_known.value
-            torque = _point_torque(sheet, prefix)
+            torque = _rated_torque(sheet) if prefix == "rated" else _point_torque(sheet, prefix)
             emf = machine.flux_linkage * machine.pole_pairs * speed * math.sqrt(1.5)
             modelled = has_l and torque is not None and torque[0] > 0.0
             need = (_operating_point(sheet, machine, torque[0], speed).line_voltage_rms
