@@ -171,7 +171,8 @@ class _SheetMemo:
     def __init__(self, sheet: Sheet) -> None:
         self.sheet = sheet
         self.size = len(sheet.values)
-        self.own_rules = {k.rule for k in sheet.values.values() if k.rule is not None}
+        # the rules that derived a value of the sheet (None stands for given values)
+        self.own_rules = {k.rule for k in sheet.values.values()}
         self.inputs: dict[tuple[str, str, bool], ModelInputs | None] = {}
         self.points: dict[tuple[int, float, float, float | None],
                           tuple[DqMachine, OperatingPoint]] = {}
