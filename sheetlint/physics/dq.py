@@ -31,7 +31,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any
 
 SQRT2 = math.sqrt(2.0)
@@ -70,10 +70,12 @@ class DqMachine:
 
     def valid(self) -> bool:
         """True when every parameter is finite and in range (psi, L, p > 0, R >= 0)."""
-        values = (self.flux_linkage, self.ld, self.lq, self.resistance, self.pole_pairs)
-        return (all(math.isfinite(v) for v in values) and self.flux_linkage > 0.0
-                and self.ld > 0.0 and self.lq > 0.0 and self.resistance >= 0.0
-                and self.pole_pairs > 0.0)
+        isfinite = math.isfinite
+        psi, ld, lq, r, p = (self.flux_linkage, self.ld, self.lq, self.resistance,
+                             self.pole_pairs)
+        return (isfinite(psi) and isfinite(ld) and isfinite(lq) and isfinite(r)
+                and isfinite(p) and psi > 0.0 and ld > 0.0 and lq > 0.0 and r >= 0.0
+                and p > 0.0)
 
 
 @dataclass(frozen=True, slots=True)
@@ -210,12 +212,14 @@ def mtpa_currents_for_torque(machine: DqMachine, torque: float) -> tuple[float, 
     if delta_l == 0.0:
         return 0.0, sign * target / psi
     i_q = min(target / psi, math.sqrt(target / abs(delta_l)))
+    psi2, two_dl, four_dl2 = psi * psi, 2.0 * delta_l, 4.0 * delta_l * delta_l
     for _ in range(_MAX_ITER):
-        root = math.sqrt(psi * psi + 4.0 * delta_l * delta_l * i_q * i_q)
-        i_d = 2.0 * delta_l * i_q * i_q / (psi + root)
-        f = i_q * (psi + delta_l * i_d) - target
-        di_d = 2.0 * delta_l * i_q / root
-        slope = psi + delta_l * i_d + delta_l * i_q * di_d
+        root = math.sqrt(psi2 + four_dl2 * i_q * i_q)
+        two_dl_iq = two_dl * i_q
+        i_d = two_dl_iq * i_q / (psi + root)  # _mtpa_id_for_iq
+        flux = psi + delta_l * i_d
+        f = i_q * flux - target
+        slope = flux + delta_l * i_q * (two_dl_iq / root)  # d(i_q flux)/di_q on the curve
         step = f / slope
         i_q_new = i_q - step
         if i_q_new <= 0.0:
@@ -327,7 +331,9 @@ def solve_point(machine: DqMachine, i_d: float, i_q: float, speed: float,
                 region: str) -> OperatingPoint:
     """All derived quantities of a given current vector at a mechanical speed [rad/s]."""
     omega_e = machine.pole_pairs * speed
-    u_d, u_q = stator_voltage(machine, i_d, i_q, omega_e)
+    psi, ld, lq, r = machine.flux_linkage, machine.ld, machine.lq, machine.resistance
+    u_d = r * i_d - omega_e * lq * i_q  # stator_voltage
+    u_q = r * i_q + omega_e * (ld * i_d + psi)
     i_mag = math.hypot(i_d, i_q)
     u_mag = math.hypot(u_d, u_q)
     p_in = 1.5 * (u_d * i_d + u_q * i_q)
@@ -337,36 +343,41 @@ def solve_point(machine: DqMachine, i_d: float, i_q: float, speed: float,
         leading = (u_q * i_d - u_d * i_q) < 0.0
     else:
         power_factor, leading = 1.0, False
-    return OperatingPoint(
-        id=i_d, iq=i_q, ud=u_d, uq=u_q,
-        torque=electromagnetic_torque(machine, i_d, i_q), speed=speed,
-        current_rms=i_mag / SQRT2, line_voltage_rms=u_mag * SQRT_3_2,
-        power_factor=min(power_factor, 1.0), leading=leading,
-        load_angle=math.atan2(-u_d, u_q),
-        copper_loss=1.5 * machine.resistance * i_mag * i_mag, input_power=p_in, region=region)
+    torque = 1.5 * machine.pole_pairs * i_q * (psi + (ld - lq) * i_d)  # electromagnetic_torque
+    return OperatingPoint(i_d, i_q, u_d, u_q, torque, speed, i_mag / SQRT2, u_mag * SQRT_3_2,
+                          min(power_factor, 1.0), leading, math.atan2(-u_d, u_q),
+                          1.5 * r * i_mag * i_mag, p_in, region)
 
 
 def operating_point(machine: DqMachine, torque: float, speed: float,
-                    line_voltage_limit: float | None = None) -> OperatingPoint:
+                    line_voltage_limit: float | None = None, *,
+                    mtpa: OperatingPoint | None = None) -> OperatingPoint:
     """Least-current operating point for a torque [N*m] at a mechanical speed [rad/s].
 
     Below base speed the MTPA point (closed form / Newton); when its voltage exceeds
     ``line_voltage_limit`` [V line rms] the point on the voltage limit with the least current
     (field weakening: i_d more negative than MTPA, same torque). ``region`` says which.
+    ``mtpa`` is ``operating_point(machine, torque, speed)`` (no limit) when the caller has it
+    already; the limit is then applied to it instead of solving it again.
     """
-    i_d, i_q = mtpa_currents_for_torque(machine, torque)
-    if line_voltage_limit is None:
-        return solve_point(machine, i_d, i_q, speed, "mtpa")
-    omega_e = machine.pole_pairs * speed
+    if mtpa is None:
+        i_d, i_q = mtpa_currents_for_torque(machine, torque)
+        if line_voltage_limit is None:
+            return solve_point(machine, i_d, i_q, speed, "mtpa")
+        u_d, u_q = stator_voltage(machine, i_d, i_q, machine.pole_pairs * speed)
+    elif line_voltage_limit is None:
+        return mtpa
+    else:
+        i_d, i_q, u_d, u_q = mtpa.id, mtpa.iq, mtpa.ud, mtpa.uq
     u_limit = peak_phase_from_line_rms(line_voltage_limit)
-    u_d, u_q = stator_voltage(machine, i_d, i_q, omega_e)
     u2 = u_limit * u_limit
     if u_d * u_d + u_q * u_q <= u2 * (1.0 + 1e-12) or torque == 0.0:
-        return solve_point(machine, i_d, i_q, speed, "mtpa")
+        return mtpa if mtpa is not None else solve_point(machine, i_d, i_q, speed, "mtpa")
     c = torque / (1.5 * machine.pole_pairs)
-    i_d_fw = _field_weakening_id(machine, c, omega_e, u2, i_d)
+    i_d_fw = _field_weakening_id(machine, c, machine.pole_pairs * speed, u2, i_d)
     if i_d_fw is None:
-        return solve_point(machine, i_d, i_q, speed, "unreachable")
+        return (replace(mtpa, region="unreachable") if mtpa is not None
+                else solve_point(machine, i_d, i_q, speed, "unreachable"))
     i_q_fw = c / (machine.flux_linkage + (machine.ld - machine.lq) * i_d_fw)
     return solve_point(machine, i_d_fw, i_q_fw, speed, "field-weakening")
 
@@ -418,40 +429,161 @@ def base_speed(machine: DqMachine, current_rms: float, line_voltage_limit: float
     return omega_e / machine.pole_pairs
 
 
-def _currents_at_voltage_angle(machine: DqMachine, u: float, omega_e: float,
-                               angle: float) -> tuple[float, float]:
-    """(i_d, i_q) for a voltage vector of amplitude u [V peak] at ``angle`` ahead of q."""
-    r = machine.resistance
-    u_d = -u * math.sin(angle)
-    u_q = u * math.cos(angle) - omega_e * machine.flux_linkage
-    det = r * r + omega_e * omega_e * machine.ld * machine.lq
-    i_d = (r * u_d + omega_e * machine.lq * u_q) / det
-    i_q = (r * u_q - omega_e * machine.ld * u_d) / det
-    return i_d, i_q
+class _LoadAngleTorque:
+    """Torque against the angle of a voltage vector of fixed amplitude, at a fixed frequency.
+
+    The voltage vector of amplitude u [V peak] leads the q-axis by the load angle d:
+    u_d = -u sin d, u_q = u cos d; the steady-state currents follow from the dq equations,
+
+    .. math:: i_d = \\frac{R u_d' + \\omega_e L_q u_q'}{R^2 + \\omega_e^2 L_d L_q}, \\quad
+        i_q = \\frac{R u_q' - \\omega_e L_d u_d'}{R^2 + \\omega_e^2 L_d L_q}, \\quad
+        u_d' = u_d, \\ u_q' = u_q - \\omega_e \\psi
+
+    and T = 3/2 p (psi i_q + (L_d - L_q) i_d i_q). The terms that do not depend on the angle
+    are worked out once; the derivatives in the angle are exact (d/dd of sin and cos).
+    Evaluated term by term as the dq equations read, for the search of the maximum torque
+    on the voltage limit (MTPV); :class:`_UfTorque` is the cheaper form for U/f operation.
+    """
+
+    __slots__ = ("det", "dl", "k", "neg_u", "psi", "r", "u", "w_psi", "wld", "wlq")
+
+    def __init__(self, machine: DqMachine, u: float, omega_e: float) -> None:
+        r = machine.resistance
+        self.r = r
+        self.det = r * r + omega_e * omega_e * machine.ld * machine.lq
+        self.u, self.neg_u = u, -u
+        self.w_psi = omega_e * machine.flux_linkage
+        self.wlq, self.wld = omega_e * machine.lq, omega_e * machine.ld
+        self.k = 1.5 * machine.pole_pairs
+        self.psi, self.dl = machine.flux_linkage, machine.ld - machine.lq
+
+    def currents(self, angle: float) -> tuple[float, float]:
+        """(i_d, i_q) [A peak] at the load angle."""
+        r, det = self.r, self.det
+        u_d = self.neg_u * math.sin(angle)
+        u_q = self.u * math.cos(angle) - self.w_psi
+        return (r * u_d + self.wlq * u_q) / det, (r * u_q - self.wld * u_d) / det
+
+    def torque_at(self, sin_angle: float, cos_angle: float) -> float:
+        """T [N*m] at the load angle given by its sine and cosine."""
+        r, det = self.r, self.det
+        u_d = self.neg_u * sin_angle
+        u_q = self.u * cos_angle - self.w_psi
+        i_d = (r * u_d + self.wlq * u_q) / det
+        i_q = (r * u_q - self.wld * u_d) / det
+        return self.k * (self.psi * i_q + self.dl * i_d * i_q)
+
+    def torque(self, angle: float) -> float:
+        """T [N*m] at the load angle [rad]."""
+        return self.torque_at(math.sin(angle), math.cos(angle))
+
+    def slope_and_curvature(self, angle: float) -> tuple[float, float]:
+        """(dT/dd, d2T/dd2) at the load angle: what a search for the maximum wants."""
+        r, det, wlq, wld = self.r, self.det, self.wlq, self.wld
+        us, uc = self.u * math.sin(angle), self.u * math.cos(angle)
+        u_d, u_q = -us, uc - self.w_psi  # first derivatives -uc, -us; second us, -uc
+        i_d = (r * u_d + wlq * u_q) / det
+        i_q = (r * u_q - wld * u_d) / det
+        di_d = (r * -uc + wlq * u_d) / det
+        di_q = (r * u_d - wld * -uc) / det
+        ddi_d = (r * us + wlq * -uc) / det
+        ddi_q = (r * -uc - wld * us) / det
+        k, psi, dl = self.k, self.psi, self.dl
+        return (k * (psi * di_q + dl * (di_d * i_q + i_d * di_q)),
+                k * (psi * ddi_q + dl * (ddi_d * i_q + 2.0 * di_d * di_q + i_d * ddi_q)))
 
 
-def _torque_at_voltage_angle(machine: DqMachine, u: float, omega_e: float,
-                             angle: float) -> tuple[float, float, float]:
-    """Torque and its first two derivatives in the load angle, voltage amplitude fixed."""
-    r = machine.resistance
-    det = r * r + omega_e * omega_e * machine.ld * machine.lq
-    s, c = math.sin(angle), math.cos(angle)
-    u_d, u_q = -u * s, u * c - omega_e * machine.flux_linkage
-    du_d, du_q = -u * c, -u * s
-    ddu_d, ddu_q = u * s, -u * c
-    wlq, wld = omega_e * machine.lq, omega_e * machine.ld
-    i_d = (r * u_d + wlq * u_q) / det
-    i_q = (r * u_q - wld * u_d) / det
-    di_d = (r * du_d + wlq * du_q) / det
-    di_q = (r * du_q - wld * du_d) / det
-    ddi_d = (r * ddu_d + wlq * ddu_q) / det
-    ddi_q = (r * ddu_q - wld * ddu_d) / det
-    k = 1.5 * machine.pole_pairs
-    psi, dl = machine.flux_linkage, machine.ld - machine.lq
-    t = k * (psi * i_q + dl * i_d * i_q)
-    dt = k * (psi * di_q + dl * (di_d * i_q + i_d * di_q))
-    ddt = k * (psi * ddi_q + dl * (ddi_d * i_q + 2.0 * di_d * di_q + i_d * ddi_q))
-    return t, dt, ddt
+class _UfTorque:
+    """Torque against the load angle at fixed voltage and frequency, as a trigonometric sum.
+
+    With u_d = -U sin d and u_q = U cos d the steady-state currents are affine in sin d and
+    cos d (D = R^2 + w^2 L_d L_q):
+
+    .. math:: i_d = \\frac{-R U \\sin\\delta + \\omega L_q U \\cos\\delta
+        - \\omega^2 L_q \\psi}{D}, \\quad
+        i_q = \\frac{\\omega L_d U \\sin\\delta + R U \\cos\\delta - R \\omega \\psi}{D}
+
+    so T = 3/2 p (psi i_q + (L_d - L_q) i_d i_q) is a trigonometric polynomial of order two,
+
+    .. math:: T(\\delta) = T_0 + T_{1s}\\sin\\delta + T_{1c}\\cos\\delta
+        + T_{2s}\\sin 2\\delta + T_{2c}\\cos 2\\delta
+
+    whose coefficients are worked out once; T and its derivatives in the angle then cost one
+    sine and one cosine each. (With R = 0: T_1s = a, T_2s = b of :func:`pull_out`.)
+    """
+
+    __slots__ = ("t0", "t1c", "t1s", "t2c", "t2s")
+
+    def __init__(self, machine: DqMachine, u: float, omega_e: float) -> None:
+        r, ld, lq, psi = machine.resistance, machine.ld, machine.lq, machine.flux_linkage
+        det = r * r + omega_e * omega_e * ld * lq
+        # i_d = a_d sin + b_d cos + c_d, i_q = a_q sin + b_q cos + c_q
+        a_d, b_d, c_d = -r * u / det, omega_e * lq * u / det, -omega_e * omega_e * lq * psi / det
+        a_q, b_q, c_q = omega_e * ld * u / det, r * u / det, -r * omega_e * psi / det
+        k = 1.5 * machine.pole_pairs
+        k_dl = k * (ld - lq)
+        # i_d i_q with sin^2 = (1 - cos 2d)/2, cos^2 = (1 + cos 2d)/2, sin cos = sin 2d / 2
+        self.t0 = k * psi * c_q + k_dl * (0.5 * (a_d * a_q + b_d * b_q) + c_d * c_q)
+        self.t1s = k * psi * a_q + k_dl * (a_d * c_q + c_d * a_q)
+        self.t1c = k * psi * b_q + k_dl * (b_d * c_q + c_d * b_q)
+        self.t2s = 0.5 * k_dl * (a_d * b_q + b_d * a_q)
+        self.t2c = 0.5 * k_dl * (b_d * b_q - a_d * a_q)
+
+    def torque(self, angle: float) -> float:
+        """T [N*m] at the load angle [rad]."""
+        s, c = math.sin(angle), math.cos(angle)
+        return (self.t0 + self.t1s * s + self.t1c * c + self.t2s * (2.0 * s * c)
+                + self.t2c * ((c - s) * (c + s)))
+
+    def peak_from(self, angle: float) -> float | None:
+        """Newton on dT/d(angle) = 0 from ``angle``; None when it leaves a maximum's basin.
+
+        Steps are clipped to 0.2 rad; converged when a step is below 1e-13 rad.
+        """
+        t1s, t1c, t2s, t2c = self.t1s, self.t1c, self.t2s, self.t2c
+        for _ in range(30):
+            s, c = math.sin(angle), math.cos(angle)
+            s2, c2 = 2.0 * s * c, (c - s) * (c + s)
+            curvature = -(t1s * s + t1c * c) - 4.0 * (t2s * s2 + t2c * c2)
+            if curvature >= 0.0:
+                return None
+            slope = t1s * c - t1c * s + 2.0 * (t2s * c2 - t2c * s2)
+            step = max(-0.2, min(0.2, slope / curvature))
+            angle -= step
+            if abs(step) < 1e-13:
+                return angle
+        return angle
+
+    def angle_at(self, torque: float, lo: float, hi: float, start: float) -> float:
+        """Load angle in [lo, hi] where T = ``torque``, T rising there (T(lo) <= torque).
+
+        Newton from ``start``, kept inside the bracket that each step narrows (bisection when a
+        step would leave it); converged when a step is below the relative tolerance.
+        """
+        t0, t1s, t1c, t2s, t2c = self.t0, self.t1s, self.t1c, self.t2s, self.t2c
+        x = start if lo < start < hi else hi
+        for _ in range(_MAX_ITER):
+            s, c = math.sin(x), math.cos(x)
+            s2, c2 = 2.0 * s * c, (c - s) * (c + s)
+            excess = t0 + t1s * s + t1c * c + t2s * s2 + t2c * c2 - torque
+            if excess == 0.0:
+                return x
+            if excess > 0.0:
+                hi = x
+            else:
+                lo = x
+            slope = t1s * c - t1c * s + 2.0 * (t2s * c2 - t2c * s2)
+            if slope > 0.0:
+                step = excess / slope
+                if abs(step) <= _REL_TOL * (abs(x) + abs(hi - lo) * 1e-3 + 1e-300):
+                    return x - step
+                if lo < x - step < hi:
+                    x -= step
+                    continue
+            x = 0.5 * (lo + hi)
+            if hi - lo <= _REL_TOL * (abs(lo) + abs(hi)):
+                return x
+        return x
 
 
 def pull_out(machine: DqMachine, line_voltage: float, speed: float) -> tuple[float, float]:
@@ -459,29 +591,34 @@ def pull_out(machine: DqMachine, line_voltage: float, speed: float) -> tuple[flo
 
     With R = 0 the torque is T = a sin d + b sin 2d, a = 3/2 p psi U/(w L_d),
     b = 3/4 p U^2/w^2 (1/L_q - 1/L_d); its maximum is at cos d = 4b/(a + sqrt(a^2 + 32 b^2)).
-    That is the start of a Newton iteration on dT/dd = 0 with R included.
+    That is the start of a Newton iteration on dT/dd = 0 with R included; should it leave the
+    maximum's basin, a scan of the full circle finds the maximum instead.
     """
-    omega_e = machine.pole_pairs * speed
     u = peak_phase_from_line_rms(line_voltage)
+    omega_e = machine.pole_pairs * speed
+    return _pull_out(machine, u, omega_e, _UfTorque(machine, u, omega_e))
+
+
+def _pull_out(machine: DqMachine, u: float, omega_e: float,
+              curve: _UfTorque) -> tuple[float, float]:
     k = 1.5 * machine.pole_pairs
     a = k * machine.flux_linkage * u / (omega_e * machine.ld)
     b = 0.5 * k * u * u / (omega_e * omega_e) * (1.0 / machine.lq - 1.0 / machine.ld)
     start = math.acos(max(-1.0, min(1.0, 4.0 * b / (a + math.sqrt(a * a + 32.0 * b * b)))))
-    t_start = _torque_at_voltage_angle(machine, u, omega_e, start)[0]
-    angle = _newton_maximum(machine, u, omega_e, start)
+    t_start = curve.torque(start)
+    angle = curve.peak_from(start)
     if angle is not None:
-        torque = _torque_at_voltage_angle(machine, u, omega_e, angle)[0]
+        torque = curve.torque(angle)
         if torque >= t_start:
             return torque, angle
-    torque, angle = _scan_maximum(machine, u, omega_e)
-    return torque, angle
+    return _scan_maximum(_LoadAngleTorque(machine, u, omega_e))
 
 
-def _newton_maximum(machine: DqMachine, u: float, omega_e: float,
-                    angle: float) -> float | None:
+def _newton_maximum(curve: _LoadAngleTorque, angle: float) -> float | None:
     """Newton on dT/d(angle) = 0 from ``angle``; None when it leaves a maximum's basin."""
+    slope_and_curvature = curve.slope_and_curvature
     for _ in range(30):
-        _, dt, ddt = _torque_at_voltage_angle(machine, u, omega_e, angle)
+        dt, ddt = slope_and_curvature(angle)
         if ddt >= 0.0:
             return None
         step = max(-0.2, min(0.2, dt / ddt))
@@ -491,17 +628,22 @@ def _newton_maximum(machine: DqMachine, u: float, omega_e: float,
     return angle
 
 
-def _scan_maximum(machine: DqMachine, u: float, omega_e: float) -> tuple[float, float]:
+#: the 48 load angles of the coarse scan for the torque maximum, with their sine and cosine
+_SCAN_ANGLES = tuple((angle, math.sin(angle), math.cos(angle))
+                     for angle in (-math.pi + 2.0 * math.pi * j / 48.0 for j in range(48)))
+
+
+def _scan_maximum(curve: _LoadAngleTorque) -> tuple[float, float]:
     """Largest torque over the load angle: a scan of the full circle, then Newton."""
     best_t, best = -math.inf, 0.0
-    for j in range(48):
-        angle = -math.pi + 2.0 * math.pi * j / 48.0
-        t = _torque_at_voltage_angle(machine, u, omega_e, angle)[0]
+    torque_at = curve.torque_at
+    for angle, sin_angle, cos_angle in _SCAN_ANGLES:
+        t = torque_at(sin_angle, cos_angle)
         if t > best_t:
             best_t, best = t, angle
-    refined = _newton_maximum(machine, u, omega_e, best)
+    refined = _newton_maximum(curve, best)
     if refined is not None:
-        t = _torque_at_voltage_angle(machine, u, omega_e, refined)[0]
+        t = curve.torque(refined)
         if t >= best_t:
             return t, refined
     return best_t, best
@@ -514,34 +656,50 @@ def open_loop_load_angle(machine: DqMachine, line_voltage: float, speed: float,
 
     ``pull_out_point`` is the result of :func:`pull_out` when the caller has it already.
     """
-    omega_e = machine.pole_pairs * speed
     u = peak_phase_from_line_rms(line_voltage)
-    t_max, angle_max = pull_out_point or pull_out(machine, line_voltage, speed)
+    omega_e = machine.pole_pairs * speed
+    curve = _UfTorque(machine, u, omega_e)
+    t_max, angle_max = pull_out_point or _pull_out(machine, u, omega_e, curve)
+    return _load_angle(curve, torque, t_max, angle_max)
+
+
+def open_loop_operation(machine: DqMachine, line_voltage: float, speed: float,
+                        torque: float) -> tuple[float, float, float | None]:
+    """:func:`pull_out` and :func:`open_loop_load_angle` at once, from one torque curve.
+
+    Returns the pull-out torque [N*m], its load angle [rad] and the load angle at ``torque``
+    [rad] (None beyond pull-out).
+    """
+    u = peak_phase_from_line_rms(line_voltage)
+    omega_e = machine.pole_pairs * speed
+    curve = _UfTorque(machine, u, omega_e)
+    t_max, angle_max = _pull_out(machine, u, omega_e, curve)
+    return t_max, angle_max, _load_angle(curve, torque, t_max, angle_max)
+
+
+def _load_angle(curve: _UfTorque, torque: float, t_max: float,
+                angle_max: float) -> float | None:
+    """Load angle of the stable point at ``torque`` below the pull-out point (t_max, angle_max)."""
     if torque > t_max:
         return None
-    hi = angle_max
-
-    def f(x: float) -> tuple[float, float]:
-        t, dt, _ = _torque_at_voltage_angle(machine, u, omega_e, x)
-        return t - torque, dt
-
     # half a turn back from pull-out the machine generates; else take the torque minimum
     lo = angle_max - math.pi
-    if f(lo)[0] > 0.0:
+    if curve.torque(lo) > torque:
         lo = min((angle_max - 2.0 * math.pi * j / 48.0 for j in range(1, 48)),
-                 key=lambda x: f(x)[0])
-        if f(lo)[0] > 0.0:
+                 key=curve.torque)
+        if curve.torque(lo) > torque:
             return None
     # start: the R = 0 SPM answer asin(T/T_max), stretched to the pull-out angle
     guess = math.asin(max(0.0, min(1.0, torque / t_max))) * angle_max / (0.5 * math.pi)
-    return _bracketed_newton(f, lo, hi, guess)
+    return curve.angle_at(torque, lo, angle_max, guess)
 
 
 def _max_torque_on_voltage_limit(machine: DqMachine, u: float,
                                  omega_e: float) -> tuple[float, float, float]:
     """Maximum torque on the voltage limit (MTPV point): (torque, i_d, i_q)."""
-    t, angle = _scan_maximum(machine, u, max(omega_e, 1e-12))
-    i_d, i_q = _currents_at_voltage_angle(machine, u, max(omega_e, 1e-12), angle)
+    curve = _LoadAngleTorque(machine, u, max(omega_e, 1e-12))
+    t, angle = _scan_maximum(curve)
+    i_d, i_q = curve.currents(angle)
     return t, i_d, i_q
 
 

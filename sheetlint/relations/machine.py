@@ -12,7 +12,7 @@ import functools
 import math
 from collections.abc import Callable, Iterator
 from dataclasses import dataclass, field
-from typing import Any
+from typing import Any, TypeVar
 
 from sheetlint.cautions import FINDING_CAUTION as CAUTION
 from sheetlint.engine.core import Finding, Relation, Sheet
@@ -26,10 +26,9 @@ from sheetlint.physics.dq import (
     flux_linkage_from_ke,
     max_speed_at_current,
     max_torque_at_speed,
-    open_loop_load_angle,
+    open_loop_operation,
     operating_point,
     peak_line_back_emf,
-    pull_out,
     speed_at_back_emf,
     svpwm_line_voltage,
 )
@@ -47,6 +46,7 @@ CONVERTER_SOURCE = ("six-pulse diode bridge U_dc = 3·√2/π·U_LL and space-ve
 
 
 CheckMethod = Callable[[Relation, Sheet], Iterator[Finding]]
+_T = TypeVar("_T")
 
 
 def _guarded(check: CheckMethod) -> CheckMethod:
@@ -89,8 +89,9 @@ class ModelInputs:
 
 
 def _pole_pairs(sheet: Sheet) -> tuple[float, str] | None:
+    get = sheet.values.get
     for name, scale in (("machine.pole_pairs", 1.0), ("machine.poles", 0.5)):
-        known = sheet.get(name)
+        known = get(name)
         if known is not None and known.value > 0.0 and math.isfinite(known.value):
             return known.value * scale, name
     return None
@@ -102,17 +103,10 @@ def _flux_linkage(sheet: Sheet, pole_pairs: float,
 
     Returns (psi, field, note, estimate, uncertainty).
     """
-    magnet = sheet.attr("machine.magnet")
-    if temperature == "hot":
-        target = sheet.get("rated.magnet_temperature")
-        target_k = target.value if target is not None else None
-        direct = ("emf.constant_hot", "emf.flux_linkage_hot")
-    else:
-        lowest = sheet.get("machine.ambient.min")
-        target_k = lowest.value if lowest is not None else ROOM
-        direct = ("emf.constant_cold",)
-    for name in direct:
-        known = sheet.get(name)
+    get = sheet.values.get
+    hot = temperature == "hot"
+    for name in ("emf.constant_hot", "emf.flux_linkage_hot") if hot else ("emf.constant_cold",):
+        known = get(name)
         if known is None or not known.value > 0.0:
             continue
         psi = (flux_linkage_from_ke(known.value, pole_pairs) if name.startswith("emf.constant")
@@ -120,9 +114,15 @@ def _flux_linkage(sheet: Sheet, pole_pairs: float,
         note = f"{name}: {known.note}" if known.note else None
         return psi, name, note, known.is_estimate, known.uncertainty
     for name in ("emf.flux_linkage", "emf.constant"):
-        known = sheet.get(name)
+        known = get(name)
         if known is None or not known.value > 0.0:
             continue
+        if hot:
+            target = get("rated.magnet_temperature")
+            target_k = target.value if target is not None else None
+        else:
+            lowest = get("machine.ambient.min")
+            target_k = lowest.value if lowest is not None else ROOM
         psi = (known.value if name == "emf.flux_linkage"
                else flux_linkage_from_ke(known.value, pole_pairs))
         from_k = known.temperature if known.temperature is not None else ROOM
@@ -130,20 +130,22 @@ def _flux_linkage(sheet: Sheet, pole_pairs: float,
             note = (f"{name} at {_celsius(from_k)} used as is: no rated magnet temperature, "
                     "so the hot value (lower) is not known")
         else:
+            magnet = sheet.attr("machine.magnet")
             psi *= remanence_factor(magnet, from_k, target_k)
             note = (f"{name} scaled from {_celsius(from_k)} to {_celsius(target_k)} "
                     f"({magnet or 'NdFeB'} remanence coefficient)")
-            if temperature == "cold" and sheet.get("machine.ambient.min") is None:
+            if temperature == "cold" and get("machine.ambient.min") is None:
                 note += "; no lowest ambient given, 20 °C assumed"
         return psi, name, note, known.is_estimate, known.uncertainty
     return None
 
 
 def _resistance(sheet: Sheet) -> tuple[float, str | None, str | None, bool, float]:
-    hot = sheet.get("circuit.resistance_hot")
+    get = sheet.values.get
+    hot = get("circuit.resistance_hot")
     if hot is not None and hot.value >= 0.0:
         return hot.value, "circuit.resistance_hot", None, hot.is_estimate, hot.uncertainty
-    cold = sheet.get("circuit.resistance")
+    cold = get("circuit.resistance")
     if cold is not None and cold.value >= 0.0:
         t = cold.temperature if cold.temperature is not None else ROOM
         return (cold.value, "circuit.resistance",
@@ -152,9 +154,49 @@ def _resistance(sheet: Sheet) -> tuple[float, str | None, str | None, bool, floa
     return 0.0, None, "no resistance given: copper drop neglected", False, 0.0
 
 
-#: cache for one sheet at a time: the relations of this module check the same sheet one after
-#: another. It holds the sheet itself, so an identity test cannot be fooled by a recycled id.
-_CACHE: dict[str, Any] = {"sheet": None, "entries": {}}
+class _SheetMemo:
+    """What the machine relations of one sheet share, each worked out once: the model inputs,
+    the solved operating points and results of the sheet alone (voltage limit, rated torque).
+
+    The engine checks one sheet with all relations, in registry order, before the next one,
+    so one memo is kept at a time. It holds the sheet itself (an identity test cannot be
+    fooled by a recycled id) and the number of its values (a value added in between starts a
+    fresh memo). Operating points are memoised by all their arguments (the machine by
+    identity, and each entry keeps its machine alive), so a memo can never hand a relation a
+    point of other inputs.
+    """
+
+    __slots__ = ("inputs", "own_rules", "points", "shared", "sheet", "size")
+
+    def __init__(self, sheet: Sheet) -> None:
+        self.sheet = sheet
+        self.size = len(sheet.values)
+        # the rules that derived a value of the sheet (None stands for given values)
+        self.own_rules = {k.rule for k in sheet.values.values()}
+        self.inputs: dict[tuple[str, str, bool], ModelInputs | None] = {}
+        self.points: dict[tuple[int, float, float, float | None],
+                          tuple[DqMachine, OperatingPoint]] = {}
+        self.shared: dict[Callable[[Sheet], Any], Any] = {}
+
+    def once(self, compute: Callable[[Sheet], _T]) -> _T:
+        """``compute(sheet)``, worked out on the first call only."""
+        shared = self.shared
+        if compute in shared:
+            return shared[compute]
+        value = shared[compute] = compute(self.sheet)
+        return value
+
+
+_memo: _SheetMemo | None = None
+
+
+def _sheet_memo(sheet: Sheet) -> _SheetMemo:
+    """The memo of ``sheet``: the current one, or a fresh one when the sheet is new or grew."""
+    global _memo
+    memo = _memo
+    if memo is None or memo.sheet is not sheet or memo.size != len(sheet.values):
+        memo = _memo = _SheetMemo(sheet)
+    return memo
 
 
 def model_inputs(sheet: Sheet, rule: str, temperature: str = "hot",
@@ -162,17 +204,43 @@ def model_inputs(sheet: Sheet, rule: str, temperature: str = "hot",
     """The dq machine of a sheet, or None when psi, p (and L_d, L_q) are not known.
 
     Values derived by ``rule`` itself are not used (``Sheet.usable``); estimates are used but
-    flagged, so that no error is raised on them.
+    flagged, so that no error is raised on them. Worked out once per sheet.
     """
-    if _CACHE["sheet"] is not sheet or _CACHE["size"] != len(sheet.values):
-        own_rules = {k.rule for k in sheet.values.values() if k.rule is not None}
-        _CACHE.update(sheet=sheet, size=len(sheet.values), entries={}, own=own_rules)
+    memo = _sheet_memo(sheet)
     # a rule that derived nothing sees the same inputs as every other such rule
-    key = (rule if rule in _CACHE["own"] else "*", temperature, need_inductances)
-    entries = _CACHE["entries"]
-    if key not in entries:
-        entries[key] = _model_inputs(sheet, rule, temperature, need_inductances)
-    return entries[key]
+    key = (rule if rule in memo.own_rules else "*", temperature, need_inductances)
+    entries = memo.inputs
+    if key in entries:
+        return entries[key]
+    inputs = None
+    if not need_inductances:
+        # the two readings differ only where the one with inductances is rejected
+        inputs = model_inputs(sheet, rule, temperature, True)
+    if inputs is None:
+        inputs = _model_inputs(sheet, rule, temperature, need_inductances)
+    entries[key] = inputs
+    return inputs
+
+
+def _operating_point(sheet: Sheet, machine: DqMachine, torque: float, speed: float,
+                     line_voltage_limit: float | None = None) -> OperatingPoint:
+    """:func:`operating_point`, memoised per sheet by its arguments.
+
+    The MTPA point (no limit) is solved first and kept: ``dq-operating-point`` applies the
+    rated voltage to it and ``voltage-limit`` compares it with the converter's voltage.
+    """
+    points = _sheet_memo(sheet).points
+    key = (id(machine), torque, speed, line_voltage_limit)
+    entry = points.get(key)
+    if entry is not None:
+        return entry[1]
+    mtpa_key = (id(machine), torque, speed, None)
+    entry = points.get(mtpa_key)
+    if entry is None:
+        entry = points[mtpa_key] = (machine, operating_point(machine, torque, speed))
+    point = operating_point(machine, torque, speed, line_voltage_limit, mtpa=entry[1])
+    points[key] = (machine, point)
+    return point
 
 
 def _model_inputs(sheet: Sheet, rule: str, temperature: str,
@@ -185,19 +253,25 @@ def _model_inputs(sheet: Sheet, rule: str, temperature: str,
     if flux is None or not sheet.usable(rule, flux[1], allow_estimates=True):
         return None
     psi, flux_field, flux_note, flux_estimate, flux_unc = flux
-    ld_known, lq_known = sheet.get("circuit.ld"), sheet.get("circuit.lq")
-    if ld_known is None and lq_known is None:
+    get = sheet.values.get
+    ld_given, lq_given = get("circuit.ld"), get("circuit.lq")
+    if ld_given is None and lq_given is None:
         if need_inductances:
             return None
         ld = lq = 0.0
         l_fields: list[str] = []
         l_estimate, l_unc = False, 0.0
     else:
-        ld_known = ld_known or lq_known
-        lq_known = lq_known or ld_known
+        ld_known = ld_given or lq_given
+        lq_known = lq_given or ld_given
         assert ld_known is not None and lq_known is not None
         ld, lq = ld_known.value, lq_known.value
-        l_fields = [n for n in ("circuit.ld", "circuit.lq") if sheet.has(n)]
+        if ld_given is None:
+            l_fields = ["circuit.lq"]
+        elif lq_given is None:
+            l_fields = ["circuit.ld"]
+        else:
+            l_fields = ["circuit.ld", "circuit.lq"]
         if not sheet.usable(rule, *l_fields, allow_estimates=True):
             return None
         l_estimate = ld_known.is_estimate or lq_known.is_estimate
@@ -208,10 +282,14 @@ def _model_inputs(sheet: Sheet, rule: str, temperature: str,
         return None
     if not (psi > 0.0 and math.isfinite(psi)):
         return None
-    notes = [n for n in (flux_note, r_note) if n]
-    if ld_known is not None and not sheet.has("circuit.lq"):
+    notes = []
+    if flux_note:
+        notes.append(flux_note)
+    if r_note:
+        notes.append(r_note)
+    if ld_given is not None and lq_given is None:
         notes.append("only L_d given: L_q = L_d assumed")
-    if lq_known is not None and not sheet.has("circuit.ld"):
+    if lq_given is not None and ld_given is None:
         notes.append("only L_q given: L_d = L_q assumed")
     fields = [pairs_field, flux_field, *l_fields]
     if r_field:
@@ -221,15 +299,20 @@ def _model_inputs(sheet: Sheet, rule: str, temperature: str,
 
 
 def _rated_torque(sheet: Sheet) -> tuple[float, list[str], float] | None:
-    """Rated shaft torque [N*m] (given, or P/omega), its fields and uncertainty."""
+    """Rated shaft torque [N*m] (given, or P/omega), its fields and uncertainty; once per sheet."""
+    return _sheet_memo(sheet).once(_rated_point_torque)
+
+
+def _rated_point_torque(sheet: Sheet) -> tuple[float, list[str], float] | None:
     return _point_torque(sheet, "rated")
 
 
 def _point_torque(sheet: Sheet, prefix: str) -> tuple[float, list[str], float] | None:
-    torque = sheet.get(f"{prefix}.torque")
+    get = sheet.values.get
+    torque = get(f"{prefix}.torque")
     if torque is not None:
         return torque.value, [f"{prefix}.torque"], torque.uncertainty
-    power, speed = sheet.get(f"{prefix}.power"), sheet.get(f"{prefix}.speed")
+    power, speed = get(f"{prefix}.power"), get(f"{prefix}.speed")
     if power is not None and speed is not None and speed.value > 0.0:
         return (power.value / speed.value, [f"{prefix}.power", f"{prefix}.speed"],
                 power.uncertainty + speed.uncertainty)
@@ -246,6 +329,11 @@ class VoltageLimit:
     from_supply: bool
 
 
+def _voltage_limit(sheet: Sheet) -> VoltageLimit | None:
+    """:func:`converter_voltage_limit`, worked out once per sheet."""
+    return _sheet_memo(sheet).once(converter_voltage_limit)
+
+
 def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
     """Largest fundamental line voltage [V rms]: from the DC link, the mains, or rated voltage.
 
@@ -255,12 +343,13 @@ def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
       deliverable, which is the limit used (the assumption is stated in the finding).
     - Neither: the rated voltage, taking the sheet's rated point as where the limit is reached.
     """
-    dc = sheet.get("supply.dc_link_voltage")
+    get = sheet.values.get
+    dc = get("supply.dc_link_voltage")
     if dc is not None and dc.value > 0.0:
         return VoltageLimit(svpwm_line_voltage(dc.value),
                             f"space-vector modulation from the stated DC link "
                             f"{dc.value:.0f} V: U_dc/√2", ["supply.dc_link_voltage"], True)
-    mains = sheet.get("supply.mains_voltage")
+    mains = get("supply.mains_voltage")
     if mains is not None and mains.value > 0.0:
         u_dc = DIODE_BRIDGE_DC_RATIO * mains.value
         return VoltageLimit(mains.value,
@@ -268,7 +357,7 @@ def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
                             f"= {u_dc:.0f} V under load, linear SVPWM up to "
                             f"{svpwm_line_voltage(u_dc):.0f} V; assumed that overmodulation "
                             f"delivers up to the mains voltage", ["supply.mains_voltage"], True)
-    rated = sheet.get("rated.voltage")
+    rated = get("rated.voltage")
     if rated is not None and rated.value > 0.0:
         return VoltageLimit(rated.value, "no supply stated: the rated voltage is taken as the "
                             "voltage limit (the rated point is where the limit is reached)",
@@ -278,10 +367,11 @@ def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
 
 def dc_link_voltage(sheet: Sheet) -> tuple[float, str, list[str]] | None:
     """DC-link voltage [V] a tripped converter's capacitors are charged to: stated or √2·U_mains."""
-    dc = sheet.get("supply.dc_link_voltage")
+    get = sheet.values.get
+    dc = get("supply.dc_link_voltage")
     if dc is not None and dc.value > 0.0:
         return dc.value, "stated DC link", ["supply.dc_link_voltage"]
-    mains = sheet.get("supply.mains_voltage")
+    mains = get("supply.mains_voltage")
     if mains is not None and mains.value > 0.0:
         return (SQRT2 * mains.value, f"√2·U_mains = {SQRT2 * mains.value:.0f} V (DC link of a "
                 f"diode front end at no load)", ["supply.mains_voltage"])
@@ -294,7 +384,7 @@ def _point_prefixes(sheet: Sheet) -> list[str]:
         count = 0
         while sheet.has(f"points[{count}].speed") or sheet.has(f"points[{count}].torque"):
             count += 1
-    return [f"points[{j}]" for j in range(min(count, 1000))]
+    return [f"points[{j}]" for j in range(min(count, 1000))] if count else []
 
 
 def _unique(names: list[str]) -> list[str]:
@@ -308,6 +398,8 @@ def _join(notes: list[str]) -> str:
 # --- dq-operating-point ------------------------------------------------------------------------
 @dataclass(slots=True)
 class _Band:
+    """Ranges of the model's outputs over the saturation and loss corners."""
+
     nominal: OperatingPoint
     current: tuple[float, float]
     voltage: tuple[float, float]
@@ -390,8 +482,9 @@ class DqOperatingPoint(Relation):
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         rule = self.rule
+        get = sheet.values.get
         inputs = model_inputs(sheet, rule)
-        speed_known = sheet.get("rated.speed")
+        speed_known = get("rated.speed")
         torque = _rated_torque(sheet)
         if inputs is None or speed_known is None or torque is None or speed_known.value <= 0.0:
             return
@@ -406,41 +499,33 @@ class DqOperatingPoint(Relation):
         base_tol = float(sheet.option(rule, "tolerance", 0.03))
         error_ratio = float(sheet.option(rule, "error_ratio", 1.25))
         notes = list(inputs.notes)
-        losses = [sheet.get(n) for n in ("rated.losses.iron", "rated.losses.friction")]
         torque_em = shaft_torque
-        if all(k is not None for k in losses):
-            torque_em += sum(k.value for k in losses if k is not None) / speed
+        iron, friction = get("rated.losses.iron"), get("rated.losses.friction")
+        if iron is not None and friction is not None:
+            torque_em += (iron.value + friction.value) / speed
             allowance = min(allowance, 0.03)
             notes.append("iron and friction losses added to the shaft torque")
-        rated_u = sheet.get("rated.voltage")
-        limit = converter_voltage_limit(sheet)
+        rated_u = get("rated.voltage")
+        limit_value: float | None
         if rated_u is not None and rated_u.value > 0.0:
             # the rated voltage as written, widened by its own and Ke's written precision
-            limit_value: float | None = rated_u.value * (1.0 + rated_u.uncertainty
-                                                         + inputs.uncertainty)
-        elif limit is not None:
+            limit_value = rated_u.value * (1.0 + rated_u.uncertainty + inputs.uncertainty)
+        elif (limit := _voltage_limit(sheet)) is not None:
             limit_value = limit.line_rms
             notes.append(f"voltage limit: {limit.how}")
         else:
             limit_value = None
             notes.append("no voltage limit known: MTPA at any voltage")
-        estimate = inputs.estimate or any(
-            (k := sheet.get(n)) is not None and k.is_estimate
-            for n in ("rated.speed", *torque_fields, "rated.current", "rated.voltage"))
         base_fields = [*inputs.fields, "rated.speed", *torque_fields]
         unc = inputs.uncertainty + torque_unc + speed_known.uncertainty + base_tol
         machine = inputs.machine
-        nominal = operating_point(machine, torque_em, speed, limit_value)
-        # the saturation corners are solved only when the nominal model does not already fit
-        band = _Band(nominal, (nominal.current_rms,) * 2, (nominal.line_voltage_rms,) * 2,
-                     (nominal.power_factor,) * 2)
-        if not nominal.feasible or not self._fits(sheet, band, unc):
-            band = _band(machine, torque_em, speed, limit_value, lq_sat, allowance, nominal)
+        nominal = _operating_point(sheet, machine, torque_em, speed, limit_value)
 
         if nominal.region == "unreachable" and limit_value is not None:
             t_max = max_torque_at_speed(machine, 1e9, limit_value, speed)[0]
             cause = self._cause(sheet, machine, torque_em, speed, limit_value, lq_sat,
                                 allowance, unc)
+            estimate = self._estimate(sheet, inputs, torque_fields)
             yield sheet.finding(
                 self, self._basis_severity(sheet, cause, "warning", estimate),
                 f"The model cannot make the rated torque {shaft_torque:.4g} N·m at "
@@ -449,10 +534,26 @@ class DqOperatingPoint(Relation):
                 _unique([*torque_fields, "rated.voltage", *base_fields]), cause=cause)
             return
 
+        summary = (f"dq model at {shaft_torque:.4g} N·m, {_rpm(speed)}: {nominal.region}, "
+                   f"I = {nominal.current_rms:.4g} A, U = {nominal.line_voltage_rms:.4g} V, "
+                   f"cos φ = {nominal.power_factor:.3f}, load angle "
+                   f"{math.degrees(nominal.load_angle):.1f}°, i_d = {nominal.id / SQRT2:.4g} A "
+                   f"rms, copper loss {nominal.copper_loss:.4g} W.")
+        # a sheet the nominal model fits has no mismatch (the band only widens the ranges);
+        # the saturation corners are solved only when it does not
+        if nominal.feasible and self._fits(
+                sheet, (nominal.current_rms, nominal.current_rms),
+                (nominal.line_voltage_rms, nominal.line_voltage_rms),
+                (nominal.power_factor, nominal.power_factor), unc):
+            yield sheet.finding(self, "info", f"{summary} {_join(notes)}".rstrip(), base_fields)
+            return
+        band = _band(machine, torque_em, speed, limit_value, lq_sat, allowance, nominal)
+        estimate = self._estimate(sheet, inputs, torque_fields)
+
         mismatches: list[tuple[str, str, float, float, str]] = []
         spm_below_base = (abs(machine.ld - machine.lq) <= 0.05 * max(machine.ld, machine.lq)
                           and nominal.region == "mtpa")
-        current_known = sheet.get("rated.current")
+        current_known = get("rated.current")
         if (current_known is not None and current_known.value > 0.0 and not spm_below_base
                 and sheet.usable(rule, "rated.current", allow_estimates=True)):
             i_sheet = current_known.value
@@ -479,7 +580,7 @@ class DqOperatingPoint(Relation):
                                    f"point, the sheet states {u_sheet:.4g} V (a rated voltage "
                                    f"far above the need may be the supply class, or Ke or the "
                                    f"voltage on another basis)"))
-        pf_known = sheet.get("rated.power_factor")
+        pf_known = get("rated.power_factor")
         if pf_known is not None and 0.0 < pf_known.value <= 1.0 and sheet.usable(
                 rule, "rated.power_factor", allow_estimates=True):
             pf_sheet = pf_known.value
@@ -490,11 +591,6 @@ class DqOperatingPoint(Relation):
                                    pf_sheet, f"the model gives cos φ {lo:.3f}–{hi:.3f}, the "
                                    f"sheet states {pf_sheet:.3f}"))
 
-        summary = (f"dq model at {shaft_torque:.4g} N·m, {_rpm(speed)}: {nominal.region}, "
-                   f"I = {nominal.current_rms:.4g} A, U = {nominal.line_voltage_rms:.4g} V, "
-                   f"cos φ = {nominal.power_factor:.3f}, load angle "
-                   f"{math.degrees(nominal.load_angle):.1f}°, i_d = {nominal.id / SQRT2:.4g} A "
-                   f"rms, copper loss {nominal.copper_loss:.4g} W.")
         if not mismatches:
             yield sheet.finding(self, "info", f"{summary} {_join(notes)}".rstrip(),
                                 base_fields)
@@ -510,6 +606,14 @@ class DqOperatingPoint(Relation):
                 self, severity, f"{text}. {summary} {_join(notes)}".rstrip(),
                 _unique([name, *base_fields]), expected={name: expected}, actual={name: actual},
                 deviation=actual / expected - 1.0 if expected else None, cause=cause)
+
+    @staticmethod
+    def _estimate(sheet: Sheet, inputs: ModelInputs, torque_fields: list[str]) -> bool:
+        """True when a model input or a compared rated value is an estimate."""
+        get = sheet.values.get
+        return inputs.estimate or any(
+            (k := get(n)) is not None and k.is_estimate
+            for n in ("rated.speed", *torque_fields, "rated.current", "rated.voltage"))
 
     @staticmethod
     def _basis_severity(sheet: Sheet, cause: str | None, severity: str,
@@ -529,8 +633,12 @@ class DqOperatingPoint(Relation):
         factor = 2.0 if basis == "line" else 0.5
         alt = DqMachine(machine.flux_linkage, machine.ld * factor, machine.lq * factor,
                         machine.resistance, machine.pole_pairs)
-        band = _band(alt, torque, speed, limit, lq_sat, allowance)
-        if band.nominal.feasible and self._fits(sheet, band, unc):
+        # the corners matter only when the other basis can make the torque at all
+        alt_nominal = operating_point(alt, torque, speed, limit)
+        band = (_band(alt, torque, speed, limit, lq_sat, allowance, alt_nominal)
+                if alt_nominal.feasible else None)
+        if band is not None and self._fits(sheet, band.current, band.voltage,
+                                           band.power_factor, unc):
             if factor == 0.5:
                 return ("agrees if L_d/L_q are line-to-line values, i.e. twice the phase value; "
                         "state the basis")
@@ -546,22 +654,24 @@ class DqOperatingPoint(Relation):
         return None
 
     @staticmethod
-    def _fits(sheet: Sheet, band: _Band, unc: float) -> bool:
+    def _fits(sheet: Sheet, current: tuple[float, float], voltage: tuple[float, float],
+              power_factor: tuple[float, float], unc: float) -> bool:
+        """True when every stated rated current, voltage and power factor is in its range."""
+        get = sheet.values.get
         checks = 0
-        for name, (lo, hi) in (("rated.current", band.current),
-                               ("rated.voltage", band.voltage)):
-            known = sheet.get(name)
+        for name, (lo, hi) in (("rated.current", current), ("rated.voltage", voltage)):
+            known = get(name)
             if known is None:
                 continue
             checks += 1
             tol = unc + known.uncertainty
             if not lo * (1.0 - tol) <= known.value <= hi * (1.0 + tol):
                 return False
-        pf = sheet.get("rated.power_factor")
+        pf = get("rated.power_factor")
         if pf is not None:
             checks += 1
             slack = power_factor_tolerance(pf.value) + pf.value * (pf.uncertainty + unc)
-            if not band.power_factor[0] - slack <= pf.value <= band.power_factor[1] + slack:
+            if not power_factor[0] - slack <= pf.value <= power_factor[1] + slack:
                 return False
         return checks > 0
 
@@ -602,10 +712,10 @@ class VoltageLimitRelation(Relation):
 
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
-        limit = converter_voltage_limit(sheet)
+        limit = _voltage_limit(sheet)
         if limit is None:
             return
-        rated_u = sheet.get("rated.voltage")
+        rated_u = sheet.values.get("rated.voltage")
         if (limit.from_supply and rated_u is not None
                 and rated_u.value > limit.line_rms * (1.0 + rated_u.uncertainty + 1e-9)):
             yield sheet.finding(
@@ -619,38 +729,38 @@ class VoltageLimitRelation(Relation):
         inputs = model_inputs(sheet, self.rule, need_inductances=False)
         if inputs is None:
             return
-        has_l = inputs.machine.ld > 0.0 and inputs.machine.lq > 0.0
+        machine = inputs.machine
+        has_l = machine.ld > 0.0 and machine.lq > 0.0
+        get = sheet.values.get
         # with no supply stated the limit is the rated voltage itself; without a hot back-EMF
         # the rated point would be judged with magnets at 20 °C, which overstates the EMF at
         # rated load: leave that comparison to voltage-margin, which says which it used
         prefixes = ["rated"] if limit.from_supply or sheet.has("emf.constant_hot") else []
         for prefix in [*prefixes, *_point_prefixes(sheet)]:
-            speed_known = sheet.get(f"{prefix}.speed")
+            speed_known = get(f"{prefix}.speed")
             if speed_known is None or speed_known.value <= 0.0:
                 continue
             speed = speed_known.value
-            torque = _point_torque(sheet, prefix)
-            emf = (inputs.machine.flux_linkage * inputs.machine.pole_pairs * speed
-                   * math.sqrt(1.5))
-            if has_l and torque is not None and torque[0] > 0.0:
-                point = operating_point(inputs.machine, torque[0], speed)
-                need = point.line_voltage_rms
-                what = (f"the dq model needs {need:.0f} V (MTPA, {torque[0]:.4g} N·m at "
-                        f"{_rpm(speed)})")
-            else:
-                need = emf
-                what = f"the back-EMF alone is {emf:.0f} V at {_rpm(speed)}"
+            torque = _rated_torque(sheet) if prefix == "rated" else _point_torque(sheet, prefix)
+            emf = machine.flux_linkage * machine.pole_pairs * speed * math.sqrt(1.5)
+            modelled = has_l and torque is not None and torque[0] > 0.0
+            need = (_operating_point(sheet, machine, torque[0], speed).line_voltage_rms
+                    if modelled and torque is not None else emf)
             margin = inputs.uncertainty + speed_known.uncertainty
             if need <= limit.line_rms * (1.0 + margin):
                 continue
             fw = ""
-            if has_l and torque is not None and torque[0] > 0.0:
-                fw_point = operating_point(inputs.machine, torque[0], speed, limit.line_rms)
+            if modelled and torque is not None:
+                what = (f"the dq model needs {need:.0f} V (MTPA, {torque[0]:.4g} N·m at "
+                        f"{_rpm(speed)})")
+                fw_point = _operating_point(sheet, machine, torque[0], speed, limit.line_rms)
                 if fw_point.feasible:
                     fw = (f" With field weakening the point needs {fw_point.current_rms:.4g} A "
                           f"(i_d = {fw_point.id / SQRT2:.4g} A rms).")
                 else:
                     fw = " Even field weakening cannot make this torque at this speed."
+            else:
+                what = f"the back-EMF alone is {emf:.0f} V at {_rpm(speed)}"
             cause = None
             if emf > limit.line_rms:
                 cause = (f"the back-EMF at the magnet temperature used ({emf:.0f} V at "
@@ -668,6 +778,13 @@ class VoltageLimitRelation(Relation):
 
 
 # --- field-weakening-speed ---------------------------------------------------------------------
+def _reach_text(reach: float) -> str:
+    """A reachable speed [rad/s] as the finding words it."""
+    if math.isinf(reach):
+        return "not voltage-limited (current at or above ψ/L_d)"
+    return "above 100000 r/min" if reach > 1e5 * RPM else _rpm(reach)
+
+
 @register
 class FieldWeakeningSpeed(Relation):
     """The claimed maximum speed must be reachable within the voltage limit.
@@ -703,23 +820,19 @@ class FieldWeakeningSpeed(Relation):
 
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
+        get = sheet.values.get
         inputs = model_inputs(sheet, self.rule)
-        limit = converter_voltage_limit(sheet)
-        rated_i = sheet.get("rated.current")
+        limit = _voltage_limit(sheet)
+        rated_i = get("rated.current")
         if inputs is None or limit is None or rated_i is None or rated_i.value <= 0.0:
             return
         machine = inputs.machine
         i_ch = characteristic_current(machine) / SQRT2
         reach_rated = max_speed_at_current(machine, rated_i.value, limit.line_rms)
-        peak_i = sheet.get("limits.peak_current")
+        peak_i = get("limits.peak_current")
         reach_peak = (max_speed_at_current(machine, peak_i.value, limit.line_rms)
                       if peak_i is not None and peak_i.value > 0.0 else None)
-
-        def text(reach: float) -> str:
-            if math.isinf(reach):
-                return "not voltage-limited (current at or above ψ/L_d)"
-            return "above 100000 r/min" if reach > 1e5 * RPM else _rpm(reach)
-
+        text = _reach_text
         facts = (f"Characteristic current ψ/L_d = {i_ch:.4g} A rms; highest speed within "
                  f"{limit.line_rms:.0f} V at rated current {rated_i.value:.4g} A: "
                  f"{text(reach_rated)}")
@@ -728,7 +841,7 @@ class FieldWeakeningSpeed(Relation):
         facts += f" (magnets at the rated temperature; {limit.how}). {_join(inputs.notes)}"
         facts = facts.rstrip()
         fields = ["limits.max_speed", "rated.current", *limit.fields, *inputs.fields]
-        max_speed = sheet.get("limits.max_speed")
+        max_speed = get("limits.max_speed")
         if max_speed is None or max_speed.value <= 0.0:
             yield sheet.finding(self, "info", facts, fields[1:])
             return
@@ -796,7 +909,7 @@ class OverspeedEmf(Relation):
         u_dc, dc_how, dc_fields = dc
         crossing = speed_at_back_emf(ke, u_dc)
         temperature_note = f" ({note})" if note else ""
-        max_speed = sheet.get("limits.max_speed")
+        max_speed = sheet.values.get("limits.max_speed")
         fields = [ke_field, *dc_fields]
         if max_speed is None or max_speed.value <= 0.0:
             yield sheet.finding(
@@ -807,7 +920,7 @@ class OverspeedEmf(Relation):
             return
         peak = peak_line_back_emf(ke, max_speed.value)
         fields.insert(0, "limits.max_speed")
-        k = sheet.get(ke_field)
+        k = sheet.values.get(ke_field)
         margin = (k.uncertainty if k is not None else 0.0) + max_speed.uncertainty
         if peak <= u_dc * (1.0 + margin):
             yield sheet.finding(
@@ -833,7 +946,7 @@ class OverspeedEmf(Relation):
 
     @staticmethod
     def _cold_ke(sheet: Sheet) -> tuple[str, float | None, str | None]:
-        cold = sheet.get("emf.constant_cold")
+        cold = sheet.values.get("emf.constant_cold")
         if cold is not None:
             return "emf.constant_cold", cold.value, cold.note
         pairs = _pole_pairs(sheet)
@@ -881,17 +994,16 @@ class PullOutMargin(Relation):
 
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
+        get = sheet.values.get
         inputs = model_inputs(sheet, self.rule)
-        rated_u, speed = sheet.get("rated.voltage"), sheet.get("rated.speed")
+        rated_u, speed = get("rated.voltage"), get("rated.speed")
         torque = _rated_torque(sheet)
         if (inputs is None or rated_u is None or speed is None or torque is None
                 or rated_u.value <= 0.0 or speed.value <= 0.0 or torque[0] <= 0.0):
             return
         min_ratio = float(sheet.option(self.rule, "min_ratio", 1.35))
-        pull_out_point = pull_out(inputs.machine, rated_u.value, speed.value)
-        t_po = pull_out_point[0]
-        angle = open_loop_load_angle(inputs.machine, rated_u.value, speed.value, torque[0],
-                                     pull_out_point)
+        t_po, _, angle = open_loop_operation(inputs.machine, rated_u.value, speed.value,
+                                             torque[0])
         fields = ["rated.voltage", "rated.speed", *torque[1], *inputs.fields]
         closed = ("Closed-loop (field-oriented) control holds the angle itself; this margin "
                   "concerns open-loop U/f operation.")
@@ -952,20 +1064,21 @@ class ShortCircuitCurrent(Relation):
         inputs = model_inputs(sheet, self.rule)
         if inputs is None:
             return
-        reference = sheet.get("limits.peak_current")
+        get = sheet.values.get
+        reference = get("limits.peak_current")
         name = "limits.peak_current"
         if reference is None or reference.value <= 0.0:
-            reference, name = sheet.get("rated.current"), "rated.current"
+            reference, name = get("rated.current"), "rated.current"
         if reference is None or reference.value <= 0.0:
             return
         i_sc = characteristic_current(inputs.machine) / SQRT2
         margin = inputs.uncertainty + reference.uncertainty
+        if i_sc <= reference.value * (1.0 + margin):
+            return
         fields = [name, *inputs.fields]
         text = (f"Steady-state short-circuit current ψ/L_d = {i_sc:.4g} A rms (magnets at the "
                 f"rated temperature) against the {name.split('.')[-1].replace('_', ' ')} "
                 f"{reference.value:.4g} A. {_join(inputs.notes)}")
-        if i_sc <= reference.value * (1.0 + margin):
-            return
         if name == "rated.current":
             # ψ/L_d above rated current is the normal case (it equals I_rated/x with the
             # per-unit reactance x < 1): a note asking for the peak current, not a warning
