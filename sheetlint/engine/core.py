@@ -173,7 +173,7 @@ class Settings:
 class Sheet:
     """The engine's view of one record: known SI values plus non-physical attributes."""
 
-    __slots__ = ("attributes", "findings", "locate", "located", "record_id", "settings",
+    __slots__ = ("attributes", "findings", "locate", "located", "memo", "record_id", "settings",
                  "values")
 
     def __init__(
@@ -191,6 +191,8 @@ class Sheet:
         self.locate = locate
         self.located: dict[str, dict[str, Any] | None] = {}
         self.findings: list[Finding] = []
+        #: work that relations of one family share on this sheet, keyed by the family
+        self.memo: dict[str, Any] = {}
 
     # --- access -------------------------------------------------------------------------
     def get(self, name: str) -> Known | None:

@@ -158,12 +158,10 @@ class _SheetMemo:
     """What the machine relations of one sheet share, each worked out once: the model inputs,
     the solved operating points and results of the sheet alone (voltage limit, rated torque).
 
-    The engine checks one sheet with all relations, in registry order, before the next one,
-    so one memo is kept at a time. It holds the sheet itself (an identity test cannot be
-    fooled by a recycled id) and the number of its values (a value added in between starts a
-    fresh memo). Operating points are memoised by all their arguments (the machine by
-    identity, and each entry keeps its machine alive), so a memo can never hand a relation a
-    point of other inputs.
+    It lives on the sheet (``Sheet.memo``), so it goes with the sheet, and it notes the number
+    of the sheet's values (a value added in between starts a fresh memo). Operating points
+    are memoised by all their arguments (the machine by identity, and each entry keeps its
+    machine alive), so a memo can never hand a relation a point of other inputs.
     """
 
     __slots__ = ("inputs", "own_rules", "points", "shared", "sheet", "size")
@@ -187,15 +185,11 @@ class _SheetMemo:
         return value
 
 
-_memo: _SheetMemo | None = None
-
-
 def _sheet_memo(sheet: Sheet) -> _SheetMemo:
-    """The memo of ``sheet``: the current one, or a fresh one when the sheet is new or grew."""
-    global _memo
-    memo = _memo
-    if memo is None or memo.sheet is not sheet or memo.size != len(sheet.values):
-        memo = _memo = _SheetMemo(sheet)
+    """The memo of ``sheet``: its current one, or a fresh one when the sheet grew."""
+    memo = sheet.memo.get("machine")
+    if memo is None or memo.size != len(sheet.values):
+        memo = sheet.memo["machine"] = _SheetMemo(sheet)
     return memo
 
 
