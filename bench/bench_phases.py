@@ -35,8 +35,9 @@ def main() -> None:
     clock = time.perf_counter
     spent: Counter[str] = Counter()
     for data in records:
+        data = copy.deepcopy(data)
         t0 = clock()
-        record = MachineRecord.model_validate(copy.deepcopy(data))
+        record = MachineRecord.model_validate(data)
         t1 = clock()
         sheet, notes = build_sheet(record, Settings())
         t2 = clock()

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Iterator, Mapping
 from dataclasses import dataclass, field
+from types import MappingProxyType
 from typing import Any, ClassVar, Literal
 
 from sheetlint.fields import display
@@ -153,6 +154,9 @@ class Finding:
         return out
 
 
+_NO_OPTIONS: Mapping[str, Any] = MappingProxyType({})
+
+
 @dataclass(slots=True)
 class Settings:
     """Engine settings merged from defaults, configuration files and the command line."""
@@ -162,7 +166,7 @@ class Settings:
     options: dict[str, dict[str, Any]] = field(default_factory=dict)
 
     def option(self, rule: str, name: str, default: Any) -> Any:
-        return self.options.get(rule, {}).get(name, default)
+        return self.options.get(rule, _NO_OPTIONS).get(name, default)
 
     def enabled(self, rule: str) -> bool:
         if rule in self.ignore:
