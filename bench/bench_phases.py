@@ -21,7 +21,6 @@ from bench_engine import make_records  # the same records (this script's folder 
 from sheetlint.engine import run as engine
 from sheetlint.engine.build import build_sheet
 from sheetlint.engine.core import SEVERITY_RANK, Settings
-from sheetlint.engine.monomial import Monomial
 from sheetlint.intake.records import RawRecord
 from sheetlint.model import MachineRecord
 from sheetlint.relations.registry import all_relations
@@ -53,19 +52,10 @@ def main() -> None:
         spent["build sheet"] += t2 - t1
         spent["screen"] += t3 - t2
         spent["derive"] += t4 - t3
-        evaluations = []
+        evaluations: list = []
         for relation in relations:
             start = clock()
-            if isinstance(relation, Monomial):
-                for variant in relation.variants(sheet):
-                    evaluation = variant.evaluate(sheet)
-                    if evaluation is None:
-                        continue
-                    if abs(evaluation.residual) > evaluation.tolerance:
-                        evaluation.finding = variant.failure(sheet, evaluation)
-                    evaluations.append(evaluation)
-            else:
-                findings.extend(relation.check(sheet))
+            engine.check_relation(relation, sheet, findings, evaluations)
             spent[f"check {relation.rule}"] += clock() - start
         t5 = clock()
         findings.extend(engine._explain_failures(sheet, evaluations))

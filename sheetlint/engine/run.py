@@ -140,19 +140,7 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
     derive(sheet, relations)
     evaluations: list[Evaluation] = []
     for relation in relations:
-        try:
-            if isinstance(relation, Monomial):
-                for variant in relation.variants(sheet):
-                    evaluation = variant.evaluate(sheet)
-                    if evaluation is None:
-                        continue
-                    if abs(evaluation.residual) > evaluation.tolerance:
-                        evaluation.finding = variant.failure(sheet, evaluation)
-                    evaluations.append(evaluation)
-                continue
-            findings.extend(relation.check(sheet))
-        except NUMERIC_FAILURES as exc:
-            findings.append(_not_evaluated(sheet, relation, exc))
+        check_relation(relation, sheet, findings, evaluations)
     findings.extend(_explain_failures(sheet, evaluations))
     findings.extend(sheet.findings)
     _estimate(sheet, relations)
@@ -165,6 +153,25 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
 
 #: arithmetic that values far outside any machine's range can still provoke
 NUMERIC_FAILURES = (ArithmeticError, ValueError)
+
+
+def check_relation(relation: Any, sheet: Sheet, findings: list[Finding],
+                   evaluations: list[Evaluation]) -> None:
+    """Check one relation on a derived sheet: its findings go to ``findings``; a monomial's
+    evaluations go to ``evaluations`` (their findings are added after the cause diagnosis)."""
+    try:
+        if isinstance(relation, Monomial):
+            for variant in relation.variants(sheet):
+                evaluation = variant.evaluate(sheet)
+                if evaluation is None:
+                    continue
+                if abs(evaluation.residual) > evaluation.tolerance:
+                    evaluation.finding = variant.failure(sheet, evaluation)
+                evaluations.append(evaluation)
+            return
+        findings.extend(relation.check(sheet))
+    except NUMERIC_FAILURES as exc:
+        findings.append(_not_evaluated(sheet, relation, exc))
 
 
 def _not_evaluated(sheet: Sheet, relation: Any, exc: BaseException) -> Finding:
