@@ -45,7 +45,7 @@ class Known:
         self,
         value: float,
         uncertainty: float = 0.0,
-        origin: str = "given",
+        origin: str = GIVEN,
         rule: str | None = None,
         inputs: tuple[str, ...] = (),
         basis: str | None = None,
