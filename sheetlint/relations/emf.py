@@ -68,7 +68,7 @@ class MagnetTemperature(Relation):
             t_cold = cold.value if cold else ROOM
             factor = remanence_factor(magnet, t_ke, t_cold, alpha)
             note = (f"{magnet} at {t_cold - 273.15:.0f} °C"
-                    + ("" if cold else " (no lowest ambient given: 20 °C assumed)"))
+                    + ("" if cold else "; no lowest ambient given, 20 °C assumed"))
             yield Derivation("emf.constant_cold", ke.value * factor, ke.uncertainty,
                              ("emf.constant",), estimate=ke.is_estimate, note=note,
                              sources=((ke, 1.0),), temperature=t_cold)

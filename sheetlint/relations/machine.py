@@ -367,8 +367,8 @@ def dc_link_voltage(sheet: Sheet) -> tuple[float, str, list[str]] | None:
         return dc.value, "stated DC link", ["supply.dc_link_voltage"]
     mains = get("supply.mains_voltage")
     if mains is not None and mains.value > 0.0:
-        return (SQRT2 * mains.value, f"√2·U_mains = {SQRT2 * mains.value:.0f} V (DC link of a "
-                f"diode front end at no load)", ["supply.mains_voltage"])
+        return (SQRT2 * mains.value, f"√2·U_mains = {SQRT2 * mains.value:.0f} V, the DC link of "
+                f"a diode front end at no load", ["supply.mains_voltage"])
     return None
 
 
@@ -902,7 +902,7 @@ class OverspeedEmf(Relation):
             return
         u_dc, dc_how, dc_fields = dc
         crossing = speed_at_back_emf(ke, u_dc)
-        temperature_note = f" ({note})" if note else ""
+        temperature_note = f": {note}" if note else ""
         max_speed = sheet.values.get("limits.max_speed")
         fields = [ke_field, *dc_fields]
         if max_speed is None or max_speed.value <= 0.0:
@@ -1070,9 +1070,10 @@ class ShortCircuitCurrent(Relation):
         if i_sc <= reference.value * (1.0 + margin):
             return
         fields = [name, *inputs.fields]
+        label = "rated current" if name == "rated.current" else "peak current"
         text = (f"Steady-state short-circuit current ψ/L_d = {i_sc:.4g} A rms (magnets at the "
-                f"rated temperature) against the {name.split('.')[-1].replace('_', ' ')} "
-                f"{reference.value:.4g} A. {_join(inputs.notes)}")
+                f"rated temperature) against the {label} "
+                f"{reference.value:.4g} A. {_join(inputs.notes)}").rstrip()
         if name == "rated.current":
             # ψ/L_d above rated current is the normal case (it equals I_rated/x with the
             # per-unit reactance x < 1): a note asking for the peak current, not a warning
@@ -1084,8 +1085,8 @@ class ShortCircuitCurrent(Relation):
         yield sheet.finding(
             self, "warning",
             f"A terminal short circuit at speed drives more current than the "
-            f"{name.split('.')[-1].replace('_', ' ')}: the converter's fault path must carry it "
+            f"{label}: the converter's fault path must carry it "
             f"and the stator field opposes the magnets (demagnetisation risk; confirm the "
-            f"magnets' limit with the manufacturer). {text}{CAUTION}",
+            f"magnets' limit with the manufacturer). {text} {CAUTION}",
             fields, expected_text={name: f"≥ {i_sc:.4g} A"},
             actual={name: reference.value}, deviation=reference.value / i_sc - 1.0)
