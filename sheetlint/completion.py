@@ -14,7 +14,7 @@ import math
 from typing import Any
 
 from sheetlint.engine.run import check_record
-from sheetlint.fields import FIELDS, KINDS, POINT_FIELDS, spec_for
+from sheetlint.fields import FIELDS, POINT_FIELDS, display_quantity
 from sheetlint.intake.records import load_records
 
 
@@ -66,12 +66,7 @@ def completed_document(path: str, include_estimates: bool = False,
         for name, known in result.derived.items():
             if not _contract_field(name) or (known.is_estimate and not include_estimates):
                 continue
-            spec = spec_for(name)
-            kind = KINDS[spec.kind] if spec else KINDS["ratio"]
-            if kind.name == "temperature":
-                shown, unit = known.value - 273.15, "°C"
-            else:
-                shown, unit = known.value / kind.display_factor, kind.display_unit
+            shown, unit = display_quantity(name, known.value, celsius="°C")
             digits = significant_digits(known.uncertainty)
             # the value as text keeps its written digits (327 is not 327.0) when read back
             number = _plain_number(f"{shown:.{digits}g}")

@@ -167,25 +167,26 @@ def spec_for(path: str) -> FieldSpec | None:
     return None
 
 
-def display(path: str, si_value: float, digits: int = 4) -> str:
-    """Format an SI value of ``path`` in its display unit, e.g. ``'95.49 N*m'``."""
+def display_quantity(path: str, si_value: float, celsius: str = "degC") -> tuple[float, str]:
+    """An SI value of ``path`` in its display unit: (value, unit); temperatures in ``celsius``."""
     spec = spec_for(path)
     kind = KINDS[spec.kind] if spec else KINDS["ratio"]
     if kind.name == "temperature":
-        return f"{_sig(si_value - 273.15, digits)} degC"
-    value = si_value / kind.display_factor
+        return si_value - 273.15, celsius
+    return si_value / kind.display_factor, kind.display_unit
+
+
+def display(path: str, si_value: float, digits: int = 4) -> str:
+    """Format an SI value of ``path`` in its display unit, e.g. ``'95.49 N*m'``."""
+    value, unit = display_quantity(path, si_value)
     if path.endswith("efficiency"):
         return f"{_sig(value * 100, digits)} %"
     if path.endswith("power_factor"):
         return _sig(value, digits)
-    unit = kind.display_unit
     return f"{_sig(value, digits)} {unit}".rstrip()
 
 
 def _sig(value: float, digits: int) -> str:
     if value == 0 or value != value or value in (float("inf"), float("-inf")):
         return str(value)
-    text = f"{value:.{digits}g}"
-    if "e" in text:
-        return text
-    return text
+    return f"{value:.{digits}g}"

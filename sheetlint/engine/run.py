@@ -26,7 +26,7 @@ from sheetlint.engine.core import (
     Sheet,
 )
 from sheetlint.engine.monomial import Evaluation, Monomial
-from sheetlint.fields import KINDS, spec_for
+from sheetlint.fields import display_quantity
 from sheetlint.intake.records import RawRecord
 from sheetlint.model import MachineRecord
 from sheetlint.relations.registry import all_relations, relation_for
@@ -322,12 +322,7 @@ def derived_payload(derived: dict[str, Known]) -> dict[str, Any]:
     """The ``derived`` object of the JSON output contract."""
     out: dict[str, Any] = {}
     for name, k in derived.items():
-        spec = spec_for(name)
-        kind = KINDS[spec.kind] if spec else KINDS["ratio"]
-        if kind.name == "temperature":
-            value, unit = k.value - 273.15, "degC"
-        else:
-            value, unit = k.value / kind.display_factor, kind.display_unit
+        value, unit = display_quantity(name, k.value)
         entry: dict[str, Any] = {"value": float(f"{value:.6g}"), "unit": unit,
                                  "estimate": k.origin == ESTIMATE, "rule": k.rule,
                                  "from": list(k.inputs)}
