@@ -164,10 +164,11 @@ class _SheetMemo:
     machine alive), so a memo can never hand a relation a point of other inputs.
     """
 
-    __slots__ = ("inputs", "own_rules", "points", "shared", "sheet", "size")
+    __slots__ = ("inputs", "own_rules", "points", "shared", "size")
 
     def __init__(self, sheet: Sheet) -> None:
-        self.sheet = sheet
+        # no reference back to the sheet: a cycle would leave every sheet to the cyclic
+        # garbage collector instead of freeing it when the last reference goes
         self.size = len(sheet.values)
         # the rules that derived a value of the sheet (None stands for given values)
         self.own_rules = {k.rule for k in sheet.values.values()}
@@ -176,12 +177,12 @@ class _SheetMemo:
                           tuple[DqMachine, OperatingPoint]] = {}
         self.shared: dict[Callable[[Sheet], Any], Any] = {}
 
-    def once(self, compute: Callable[[Sheet], _T]) -> _T:
-        """``compute(sheet)``, worked out on the first call only."""
+    def once(self, compute: Callable[[Sheet], _T], sheet: Sheet) -> _T:
+        """``compute(sheet)`` of this memo's sheet, worked out on the first call only."""
         shared = self.shared
         if compute in shared:
             return shared[compute]
-        value = shared[compute] = compute(self.sheet)
+        value = shared[compute] = compute(sheet)
         return value
 
 
@@ -294,7 +295,7 @@ def _model_inputs(sheet: Sheet, rule: str, temperature: str,
 
 def _rated_torque(sheet: Sheet) -> tuple[float, list[str], float] | None:
     """Rated shaft torque [N*m] (given, or P/omega), its fields and uncertainty; once per sheet."""
-    return _sheet_memo(sheet).once(_rated_point_torque)
+    return _sheet_memo(sheet).once(_rated_point_torque, sheet)
 
 
 def _rated_point_torque(sheet: Sheet) -> tuple[float, list[str], float] | None:
@@ -325,7 +326,7 @@ class VoltageLimit:
 
 def _voltage_limit(sheet: Sheet) -> VoltageLimit | None:
     """:func:`converter_voltage_limit`, worked out once per sheet."""
-    return _sheet_memo(sheet).once(converter_voltage_limit)
+    return _sheet_memo(sheet).once(converter_voltage_limit, sheet)
 
 
 def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
