@@ -139,8 +139,12 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
             findings.extend(screen(sheet))
     derive(sheet, relations)
     evaluations: list[Evaluation] = []
+    enabled = settings.enabled
     for relation in relations:
-        check_relation(relation, sheet, findings, evaluations)
+        # a rule left out by select/ignore is not checked, except a monomial: every failing
+        # monomial takes part in the cause diagnosis of the others
+        if enabled(relation.rule) or isinstance(relation, Monomial):
+            check_relation(relation, sheet, findings, evaluations)
     findings.extend(_explain_failures(sheet, evaluations))
     findings.extend(sheet.findings)
     _estimate(sheet, relations)
