@@ -5,7 +5,9 @@ building, derive, check, cause diagnosis) and, measured in the same run on the s
 records/s of pydantic validation alone, and their ratio (DESIGN.md budget: ≥ 1/3; issue 3:
 ≥ 2,000 records/s on one core). Also splits the engine path into validation and what follows
 it: validation costs more there than in a loop of its own, where its code stays in the CPU's
-caches. Prints figures; asserts nothing.
+caches. The measurements take turns in blocks of 250 records, so that a shared machine's
+drifting speed falls on all of them alike; the median ratio of the blocks is printed beside the
+whole run's. Prints figures; asserts nothing.
 
 Run: python bench/bench_engine.py [N] [--select RULE,RULE,...]
 
@@ -19,6 +21,7 @@ from __future__ import annotations
 import argparse
 import copy
 import random
+import statistics
 import time
 
 from sheetlint.engine.core import Settings
@@ -26,6 +29,8 @@ from sheetlint.engine.run import check_record, run_engine
 from sheetlint.intake.records import RawRecord
 from sheetlint.model import MachineRecord
 from sheetlint.synth import MachineSpec, record
+
+BLOCK = 250  # records per turn of the three measurements
 
 
 def make_records(n: int, seed: int = 7) -> list[dict]:
@@ -60,36 +65,48 @@ def main() -> None:
     records = make_records(n)
     check_record(RawRecord(copy.deepcopy(records[0]), None, ""))  # warm caches and imports
 
-    raws = [RawRecord(copy.deepcopy(r), None, "") for r in records]
-    start = time.perf_counter()
-    for raw in raws:
-        MachineRecord.model_validate(raw.data)
-    validate_s = time.perf_counter() - start
-
-    raws = [RawRecord(copy.deepcopy(r), None, "") for r in records]
-    start = time.perf_counter()
+    # The three measurements take turns block by block, so that each sees the machine in the
+    # same state: on a shared machine the speed drifts by tens of percent within a minute.
+    validate_s = engine_s = in_path_s = after_s = 0.0
     findings = 0
-    for raw in raws:
-        findings += len(check_record(raw, settings).findings)
-    engine_s = time.perf_counter() - start
+    block_ratios = []
+    clock = time.perf_counter
+    for first in range(0, n, BLOCK):
+        block = records[first:first + BLOCK]
 
-    # the same path split in two: validation as it costs between the engine's phases, and
-    # everything after it
-    raws = [RawRecord(copy.deepcopy(r), None, "") for r in records]
-    in_path_s = after_s = 0.0
-    for raw in raws:
-        start = time.perf_counter()
-        record = MachineRecord.model_validate(raw.data)
-        middle = time.perf_counter()
-        run_engine(record, settings)
-        in_path_s += middle - start
-        after_s += time.perf_counter() - middle
+        raws = [RawRecord(copy.deepcopy(r), None, "") for r in block]
+        start = clock()
+        for raw in raws:
+            MachineRecord.model_validate(raw.data)
+        block_validate = clock() - start
+
+        raws = [RawRecord(copy.deepcopy(r), None, "") for r in block]
+        start = clock()
+        for raw in raws:
+            findings += len(check_record(raw, settings).findings)
+        block_engine = clock() - start
+
+        # the same path split in two: validation as it costs between the engine's phases,
+        # and everything after it
+        raws = [RawRecord(copy.deepcopy(r), None, "") for r in block]
+        for raw in raws:
+            start = clock()
+            record = MachineRecord.model_validate(raw.data)
+            middle = clock()
+            run_engine(record, settings)
+            in_path_s += middle - start
+            after_s += clock() - middle
+
+        validate_s += block_validate
+        engine_s += block_engine
+        block_ratios.append(block_validate / block_engine)
 
     print(f"records:                     {n}"
           + (f" (rules checked: {args.select})" if args.select else ""))
     print(f"pydantic validation alone:   {n / validate_s:10.0f} records/s ({validate_s:.2f} s)")
     print(f"engine, raw to findings:     {n / engine_s:10.0f} records/s ({engine_s:.2f} s)")
-    print(f"engine / validation ratio:   {validate_s / engine_s:10.3f}  (budget >= 0.333)")
+    print(f"engine / validation ratio:   {validate_s / engine_s:10.3f}  (budget >= 0.333; "
+          f"median of blocks of {BLOCK}: {statistics.median(block_ratios):.3f})")
     print(f"findings:                    {findings}")
     print(f"per record: validation alone {validate_s / n * 1e6:.0f} µs; inside the engine path "
           f"{in_path_s / n * 1e6:.0f} µs for validation + {after_s / n * 1e6:.0f} µs after it")
