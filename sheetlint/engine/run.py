@@ -29,7 +29,7 @@ from sheetlint.engine.monomial import Evaluation, Monomial
 from sheetlint.fields import display_quantity
 from sheetlint.intake.records import RawRecord
 from sheetlint.model import MachineRecord
-from sheetlint.relations.registry import all_relations, relation_for
+from sheetlint.relations.registry import all_relations, relation_for, relations_with
 
 MAX_DERIVE_ROUNDS = 12
 
@@ -133,10 +133,8 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
     sheet, notes = build_sheet(record, settings, locate)
     relations = all_relations()
     findings: list[Finding] = list(notes)
-    for relation in relations:
-        screen = getattr(relation, "screen", None)
-        if screen is not None:
-            findings.extend(screen(sheet))
+    for relation in relations_with("screen"):
+        findings.extend(relation.screen(sheet))  # type: ignore[attr-defined]
     derive(sheet, relations)
     evaluations: list[Evaluation] = []
     enabled = settings.enabled
@@ -147,7 +145,7 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
             check_relation(relation, sheet, findings, evaluations)
     findings.extend(_explain_failures(sheet, evaluations))
     findings.extend(sheet.findings)
-    _estimate(sheet, relations)
+    _estimate(sheet, relations_with("estimate"))
     findings = [f for f in findings if settings.enabled(f.rule) or f.rule == "unreadable"]
     _apply_suppressions(sheet, findings)
     findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))

@@ -15,6 +15,7 @@ R = TypeVar("R", bound=type[Relation])
 _RELATIONS: dict[str, Relation] = {}
 _ORDER: list[Relation] = []
 _SORTED: list[Relation] = []  # _ORDER sorted by ``order``; rebuilt when a relation registers
+_HOOKS: dict[str, list[Relation]] = {}  # optional method name -> relations defining it
 
 
 def register(cls: R) -> R:
@@ -24,6 +25,7 @@ def register(cls: R) -> R:
     _ORDER.append(instance)
     _RELATIONS.setdefault(cls.rule, instance)
     _SORTED.clear()
+    _HOOKS.clear()
     return cls
 
 
@@ -38,6 +40,16 @@ def _sorted_relations() -> list[Relation]:
 
         _SORTED.extend(sorted(_ORDER, key=lambda r: r.order))
     return _SORTED
+
+
+def relations_with(hook: str) -> list[Relation]:
+    """The relations, in order, that define the optional method ``hook`` (``screen``,
+    ``estimate``): looked up once, not for every record."""
+    found = _HOOKS.get(hook)
+    if found is None:
+        found = _HOOKS[hook] = [r for r in _sorted_relations()
+                                if getattr(r, hook, None) is not None]
+    return found
 
 
 def relation_for(rule: str) -> Relation | None:
