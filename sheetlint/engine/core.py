@@ -173,6 +173,11 @@ class Settings:
             return False
         return self.select is None or rule in self.select
 
+    @property
+    def narrowed(self) -> bool:
+        """True when ``select`` or ``ignore`` may leave a rule out."""
+        return self.select is not None or bool(self.ignore)
+
 
 class Sheet:
     """The engine's view of one record: known SI values plus non-physical attributes."""

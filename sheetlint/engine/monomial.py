@@ -74,8 +74,10 @@ class Monomial(Relation):
     #: may check with estimated inputs; the finding is then at most a warning
     allow_estimates: ClassVar[bool] = False
     prefix: str = "rated."
-    #: (prefix, term items, fields it may derive) of this variant, built on first use
-    _plan: tuple[str, tuple[tuple[str, float], ...], frozenset[str] | None] | None = None
+    #: (prefix, term items, fields it may derive, term fields, term exponents) of this
+    #: variant, built on first use
+    _plan: tuple[str, tuple[tuple[str, float], ...], frozenset[str] | None,
+                 tuple[str, ...], tuple[float, ...]] | None = None
 
     def variants(self, sheet: Sheet) -> list[Monomial]:
         """This relation, and one copy per operating point when ``per_point``."""
@@ -110,13 +112,15 @@ class Monomial(Relation):
             return self.terms
         return {self.at(n): e for n, e in self.terms.items()}
 
-    def _variant_plan(self) -> tuple[str, tuple[tuple[str, float], ...], frozenset[str] | None]:
+    def _variant_plan(self) -> tuple[str, tuple[tuple[str, float], ...], frozenset[str] | None,
+                                     tuple[str, ...], tuple[float, ...]]:
         plan = self._plan
         if plan is None or plan[0] != self.prefix:
             targets = (None if self.derive_fields is None
                        else frozenset(self.at(f) for f in self.derive_fields))
-            plan = self._plan = (self.prefix, tuple((self.at(n), e)
-                                                    for n, e in self.terms.items()), targets)
+            items = tuple((self.at(n), e) for n, e in self.terms.items())
+            plan = self._plan = (self.prefix, items, targets, tuple(n for n, _ in items),
+                                 tuple(e for _, e in items))
         return plan
 
     def term_items(self, sheet: Sheet) -> tuple[tuple[str, float], ...]:
@@ -124,6 +128,15 @@ class Monomial(Relation):
         if type(self).field_names is Monomial.field_names:
             return self._variant_plan()[1]
         return tuple(self.field_names(sheet).items())
+
+    def _terms(self, sheet: Sheet) -> tuple[tuple[tuple[str, float], ...], tuple[str, ...],
+                                            tuple[float, ...]]:
+        """(term items, their fields, their exponents) at this variant's point."""
+        if type(self).field_names is Monomial.field_names:
+            plan = self._variant_plan()
+            return plan[1], plan[3], plan[4]
+        items = tuple(self.field_names(sheet).items())
+        return items, tuple(n for n, _ in items), tuple(e for _, e in items)
 
     # --- derive -----------------------------------------------------------------------------
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
@@ -174,11 +187,11 @@ class Monomial(Relation):
         """The residual of this relation on the sheet, or None when it cannot be checked."""
         if not self.applies(sheet):
             return None
-        items = self.term_items(sheet)
-        values = sheet.values
+        items, names, exponents = self._terms(sheet)
+        get = sheet.values.get
         rule = self.rule
         allow_estimates = self.allow_estimates
-        knowns = [values.get(name) for name, _ in items]
+        knowns = [get(name) for name in names]
         for k in knowns:
             if k is None or k.rule == rule or (k.origin == ESTIMATE and not allow_estimates):
                 return None
@@ -198,8 +211,8 @@ class Monomial(Relation):
             log_residual += exponent * math.log(value)
             tolerance += abs(exponent) * k.uncertainty  # type: ignore[union-attr]
         tolerance = tolerance / abs(a0) + self.allowance(sheet)
-        return Evaluation(self, tuple(name for name, _ in items), log_residual / a0, tolerance,
-                          knowns, tuple(e for _, e in items), a0)  # type: ignore[arg-type]
+        return Evaluation(self, names, log_residual / a0, tolerance, knowns,  # type: ignore[arg-type]
+                          exponents, a0)
 
     def reported_field(self, sheet: Sheet) -> str:
         return self.at(self.reported)

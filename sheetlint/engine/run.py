@@ -137,16 +137,18 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
         findings.extend(relation.screen(sheet))  # type: ignore[attr-defined]
     derive(sheet, relations)
     evaluations: list[Evaluation] = []
-    enabled = settings.enabled
-    for relation in relations:
+    narrowed = settings.narrowed
+    if narrowed:
         # a rule left out by select/ignore is not checked, except a monomial: every failing
         # monomial takes part in the cause diagnosis of the others
-        if enabled(relation.rule) or isinstance(relation, Monomial):
-            check_relation(relation, sheet, findings, evaluations)
+        relations = [r for r in relations if settings.enabled(r.rule) or isinstance(r, Monomial)]
+    for relation in relations:
+        check_relation(relation, sheet, findings, evaluations)
     findings.extend(_explain_failures(sheet, evaluations))
     findings.extend(sheet.findings)
     _estimate(sheet, relations_with("estimate"))
-    findings = [f for f in findings if settings.enabled(f.rule) or f.rule == "unreadable"]
+    if narrowed:
+        findings = [f for f in findings if settings.enabled(f.rule) or f.rule == "unreadable"]
     _apply_suppressions(sheet, findings)
     findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))
     derived = {name: k for name, k in sheet.values.items() if k.origin != GIVEN}
