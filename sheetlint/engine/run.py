@@ -29,7 +29,12 @@ from sheetlint.engine.monomial import Evaluation, Monomial
 from sheetlint.fields import display_quantity
 from sheetlint.intake.records import RawRecord
 from sheetlint.model import MachineRecord
-from sheetlint.relations.registry import all_relations, relation_for, relations_with
+from sheetlint.relations.registry import (
+    all_relations,
+    relation_for,
+    relations_where,
+    relations_with,
+)
 
 MAX_DERIVE_ROUNDS = 12
 
@@ -141,7 +146,9 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
     if narrowed:
         # a rule left out by select/ignore is not checked, except a monomial: every failing
         # monomial takes part in the cause diagnosis of the others
-        relations = [r for r in relations if settings.enabled(r.rule) or isinstance(r, Monomial)]
+        relations = relations_where(
+            ("checked", settings.select, settings.ignore),
+            lambda r: settings.enabled(r.rule) or isinstance(r, Monomial))
     for relation in relations:
         check_relation(relation, sheet, findings, evaluations)
     findings.extend(_explain_failures(sheet, evaluations))

@@ -6,6 +6,7 @@ Adding a relation touches one place: its class, in the module of its physical fa
 
 from __future__ import annotations
 
+from collections.abc import Callable, Hashable
 from typing import TypeVar
 
 from sheetlint.engine.core import Relation
@@ -15,7 +16,7 @@ R = TypeVar("R", bound=type[Relation])
 _RELATIONS: dict[str, Relation] = {}
 _ORDER: list[Relation] = []
 _SORTED: list[Relation] = []  # _ORDER sorted by ``order``; rebuilt when a relation registers
-_HOOKS: dict[str, list[Relation]] = {}  # optional method name -> relations defining it
+_HOOKS: dict[Hashable, list[Relation]] = {}  # selections of relations, by key
 
 
 def register(cls: R) -> R:
@@ -45,10 +46,15 @@ def _sorted_relations() -> list[Relation]:
 def relations_with(hook: str) -> list[Relation]:
     """The relations, in order, that define the optional method ``hook`` (``screen``,
     ``estimate``): looked up once, not for every record."""
-    found = _HOOKS.get(hook)
+    return relations_where(hook, lambda r: getattr(r, hook, None) is not None)
+
+
+def relations_where(key: Hashable, keep: Callable[[Relation], bool]) -> list[Relation]:
+    """The relations, in order, for which ``keep`` is true; worked out once per ``key`` (which
+    must stand for ``keep``) until a relation registers."""
+    found = _HOOKS.get(key)
     if found is None:
-        found = _HOOKS[hook] = [r for r in _sorted_relations()
-                                if getattr(r, hook, None) is not None]
+        found = _HOOKS[key] = [r for r in _sorted_relations() if keep(r)]
     return found
 
 
