@@ -166,6 +166,7 @@ class Monomial(Relation):
         uncertainty = 0.0
         estimate = False
         a = 1.0
+        inputs = []
         sources = []
         for name, exponent in items:
             if name == target:
@@ -177,10 +178,10 @@ class Monomial(Relation):
             log_sum -= exponent * math.log(k.value)
             uncertainty += abs(exponent) * k.uncertainty
             estimate = estimate or k.origin == ESTIMATE
+            inputs.append(name)
             sources.append((k, exponent))
-        yield Derivation(target, math.exp(log_sum / a), uncertainty / abs(a),
-                         tuple(n for n, _ in items if n != target), estimate=estimate,
-                         sources=tuple((k, -e / a) for k, e in sources))
+        yield Derivation(target, math.exp(log_sum / a), uncertainty / abs(a), tuple(inputs),
+                         estimate=estimate, sources=tuple([(k, -e / a) for k, e in sources]))
 
     # --- check ------------------------------------------------------------------------------
     def evaluate(self, sheet: Sheet) -> Evaluation | None:
