@@ -66,6 +66,7 @@ def _check_all(records: list[Any]) -> None:
 @given(data=JSON_LIKE, wrap=st.booleans(), give_id=st.booleans())
 @example(data=[1, 2], wrap=False, give_id=False)
 @example(data={"records": 5}, wrap=False, give_id=False)
+@example(data={"<<": None}, wrap=False, give_id=False)  # quoted in YAML: a key, not a merge
 def test_any_structure_as_json_and_yaml(tmp_path, data, wrap, give_id):
     if give_id and isinstance(data, dict):
         data = {"id": "FZ-1", **data}

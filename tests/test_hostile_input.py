@@ -75,6 +75,15 @@ def test_unreadable_file_is_refused_with_a_message(tmp_path, capsys, name, conte
     assert words in out
 
 
+def test_a_quoted_merge_sign_is_an_ordinary_key(tmp_path, capsys):
+    """YAML 1.1: only a plain ``<<`` is a merge key; ``'<<'`` in quotes is text, as in JSON."""
+    path = tmp_path / "quoted.yaml"
+    path.write_text("id: QK-1\n'<<': a note\nrated: {power: 15 kW}\n", encoding="utf-8")
+    status, out, err = _run(capsys, str(path))
+    assert status == 0, out + err
+    assert "field '<<' is not part of the schema" in out
+
+
 @pytest.mark.parametrize("name,content,words", [
     ("not-mapping.json", json.dumps({"records": [GOOD, 7]}), "expected a mapping, found int"),
     ("missing-id.json", json.dumps({"rated": {"power": "15 kW"}}), "'id'"),

@@ -201,6 +201,7 @@ def _json_lines(text: str) -> dict[str, int]:
 
 # --- YAML ---------------------------------------------------------------------------------------
 _Loader = getattr(yaml, "CSafeLoader", yaml.SafeLoader)
+_MERGE_TAG = "tag:yaml.org,2002:merge"
 
 
 def _load_yaml(name: str, text: str) -> tuple[Any, Locator]:
@@ -247,7 +248,8 @@ class _YamlBuilder:
         if isinstance(node, yaml.MappingNode):
             out: dict[str, Any] = {}
             for key_node, value_node in node.value:
-                if isinstance(key_node, yaml.ScalarNode) and key_node.value == "<<":
+                # a plain << is a merge key; a quoted '<<' is an ordinary text key
+                if isinstance(key_node, yaml.ScalarNode) and key_node.tag == _MERGE_TAG:
                     raise InputProblem(f"{self.name}: line {key_node.start_mark.line + 1}: "
                                        "YAML merge keys are not supported")
                 key = self._scalar(key_node) if isinstance(key_node, yaml.ScalarNode) else None
