@@ -123,15 +123,10 @@ class Monomial(Relation):
                                  tuple(e for _, e in items))
         return plan
 
-    def term_items(self, sheet: Sheet) -> tuple[tuple[str, float], ...]:
-        """(field, exponent) of each term at this variant's point."""
-        if type(self).field_names is Monomial.field_names:
-            return self._variant_plan()[1]
-        return tuple(self.field_names(sheet).items())
-
-    def _terms(self, sheet: Sheet) -> tuple[tuple[tuple[str, float], ...], tuple[str, ...],
-                                            tuple[float, ...]]:
-        """(term items, their fields, their exponents) at this variant's point."""
+    def term_items(self, sheet: Sheet) -> tuple[tuple[tuple[str, float], ...], tuple[str, ...],
+                                                tuple[float, ...]]:
+        """((field, exponent) of each term, the fields, the exponents) at this variant's
+        point; from the variant's plan unless ``field_names`` is overridden."""
         if type(self).field_names is Monomial.field_names:
             plan = self._variant_plan()
             return plan[1], plan[3], plan[4]
@@ -145,7 +140,7 @@ class Monomial(Relation):
 
     def derive_one(self, sheet: Sheet) -> Iterator[Derivation]:
         values = sheet.values
-        items = self.term_items(sheet)
+        items = self.term_items(sheet)[0]
         target = None
         for name, _ in items:
             if name not in values:
@@ -188,7 +183,7 @@ class Monomial(Relation):
         """The residual of this relation on the sheet, or None when it cannot be checked."""
         if not self.applies(sheet):
             return None
-        items, names, exponents = self._terms(sheet)
+        items, names, exponents = self.term_items(sheet)
         get = sheet.values.get
         rule = self.rule
         allow_estimates = self.allow_estimates
