@@ -31,8 +31,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
-from dataclasses import dataclass, replace
-from typing import Any
+from typing import Any, NamedTuple
 
 SQRT2 = math.sqrt(2.0)
 SQRT3 = math.sqrt(3.0)
@@ -46,9 +45,9 @@ _REL_TOL = 1e-13
 _MAX_ITER = 100
 
 
-@dataclass(frozen=True, slots=True)
-class DqMachine:
-    """Parameters of the linear dq model.
+class DqMachine(NamedTuple):
+    """Parameters of the linear dq model (immutable; a named tuple, which is built several
+    times faster than a frozen dataclass).
 
     Attributes
     ----------
@@ -78,9 +77,8 @@ class DqMachine:
                 and p > 0.0)
 
 
-@dataclass(frozen=True, slots=True)
-class OperatingPoint:
-    """A solved steady-state operating point (peak phase dq quantities, SI).
+class OperatingPoint(NamedTuple):
+    """A solved steady-state operating point (peak phase dq quantities, SI; immutable).
 
     ``region`` is ``"mtpa"`` (least current, voltage limit not reached), ``"field-weakening"``
     (on the voltage limit, more negative i_d than MTPA) or ``"unreachable"`` (the torque cannot
@@ -376,7 +374,7 @@ def operating_point(machine: DqMachine, torque: float, speed: float,
     c = torque / (1.5 * machine.pole_pairs)
     i_d_fw = _field_weakening_id(machine, c, machine.pole_pairs * speed, u2, i_d)
     if i_d_fw is None:
-        return (replace(mtpa, region="unreachable") if mtpa is not None
+        return (mtpa._replace(region="unreachable") if mtpa is not None
                 else solve_point(machine, i_d, i_q, speed, "unreachable"))
     i_q_fw = c / (machine.flux_linkage + (machine.ld - machine.lq) * i_d_fw)
     return solve_point(machine, i_d_fw, i_q_fw, speed, "field-weakening")
