@@ -13,7 +13,7 @@ import math
 from functools import cache
 from typing import Any
 
-from sheetlint.engine.core import GIVEN, Finding, Known, Settings, Sheet
+from sheetlint.engine.core import GIVEN, Finding, Known, Settings, Sheet, own_sensitivity
 from sheetlint.fields import BASES, FIELDS, POINT_FIELDS, spec_for
 from sheetlint.model import SECTIONS, MachineRecord, Measured
 from sheetlint.relations.registry import relation_for
@@ -64,18 +64,12 @@ def _basis_plan(path: str) -> tuple[dict[str, float] | None, str | None]:
 
 
 def _known(path: str, m: Measured, temperature: float | None = None) -> Known:
+    """The sheet's value of a measured field: SI, in the canonical basis, given."""
     factors, default = _basis_plan(path)
     basis = m.basis
     reading = m.reading
-    if factors is None:
-        factor = 1.0
-    elif basis is None:
-        factor = factors[default]  # type: ignore[index]
-    else:
-        factor = factors[basis]
-    unit = reading.unit
     return Known(
-        reading.value * factor,
+        reading.value if factors is None else reading.value * factors[basis or default],
         reading.uncertainty,
         GIVEN,
         None,
@@ -83,9 +77,11 @@ def _known(path: str, m: Measured, temperature: float | None = None) -> Known:
         basis or default,
         basis is not None,
         temperature if temperature is not None else m.temperature,
-        f"{reading.text} {unit}" if unit else reading.text,
         None,
-        {path: 1.0},
+        None,
+        own_sensitivity(path),
+        None,
+        reading,  # the written text, made when first asked for
     )
 
 
@@ -117,8 +113,9 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
     for name in ("poles", "pole_pairs", "phases"):
         raw = getattr(machine, name)
         if raw is not None:
-            values[f"machine.{name}"] = Known(float(raw), 0.0, text=str(raw),
-                                              sensitivity={f"machine.{name}": 1.0})
+            path = f"machine.{name}"
+            values[path] = Known(float(raw), 0.0, text=str(raw),
+                                 sensitivity=own_sensitivity(path))
     if machine.ambient is not None:
         put("machine.ambient", machine.ambient)
         if "min" in machine.ambient.extras:

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Iterator, Mapping
 from dataclasses import dataclass, field
+from functools import cache
 from types import MappingProxyType
 from typing import Any, ClassVar, Literal
 
@@ -38,8 +39,8 @@ class Known:
     asked for: only the cause diagnosis of a failing relation needs it.
     """
 
-    __slots__ = ("_sensitivity", "basis", "basis_stated", "inputs", "note", "origin", "rule",
-                 "sources", "temperature", "text", "uncertainty", "value")
+    __slots__ = ("_sensitivity", "_text", "_written", "basis", "basis_stated", "inputs", "note",
+                 "origin", "rule", "sources", "temperature", "uncertainty", "value")
 
     def __init__(
         self,
@@ -53,8 +54,9 @@ class Known:
         temperature: float | None = None,  # reference temperature of the value, kelvin
         text: str | None = None,
         note: str | None = None,
-        sensitivity: dict[str, float] | None = None,
+        sensitivity: Mapping[str, float] | None = None,
         sources: Sources | None = None,
+        written: Any = None,  # what ``text`` is made of when first asked: ``.text`` and ``.unit``
     ) -> None:
         self.value = value
         self.uncertainty = uncertainty
@@ -64,20 +66,31 @@ class Known:
         self.basis = basis
         self.basis_stated = basis_stated
         self.temperature = temperature
-        self.text = text
+        self._text = text
+        self._written = written
         self.note = note
         self.sources = sources
         self._sensitivity = _PENDING if sources is not None else sensitivity
 
     @property
-    def sensitivity(self) -> dict[str, float] | None:
+    def text(self) -> str | None:
+        """The value as written on the sheet, with its unit (None for a derived value)."""
+        text = self._text
+        if text is None and self._written is not None:
+            written = self._written
+            text = self._text = (f"{written.text} {written.unit}" if written.unit
+                                 else written.text)
+        return text
+
+    @property
+    def sensitivity(self) -> Mapping[str, float] | None:
         found = self._sensitivity
         if found is _PENDING:
             found = self._sensitivity = resolve_sensitivity(self.sources or ())
         return found
 
     @sensitivity.setter
-    def sensitivity(self, value: dict[str, float] | None) -> None:
+    def sensitivity(self, value: Mapping[str, float] | None) -> None:
         self._sensitivity = value
 
     @property
@@ -91,6 +104,14 @@ class Known:
     def __repr__(self) -> str:
         return (f"Known({self.value!r}, {self.uncertainty!r}, {self.origin!r}, rule={self.rule!r}"
                 f", basis={self.basis!r}, temperature={self.temperature!r})")
+
+
+@cache
+def own_sensitivity(path: str) -> Mapping[str, float]:
+    """The sensitivity of a given value to itself, ``{path: 1.0}``: one mapping per field
+    path, shared by every sheet, so nothing may change it (a plain dict, since results are
+    pickled for worker processes)."""
+    return {path: 1.0}
 
 
 def resolve_sensitivity(sources: Sources) -> dict[str, float] | None:
@@ -209,7 +230,10 @@ class Sheet:
 
     def has(self, *names: str) -> bool:
         values = self.values
-        return all(n in values for n in names)
+        for n in names:
+            if n not in values:
+                return False
+        return True
 
     def value(self, name: str) -> float:
         return self.values[name].value

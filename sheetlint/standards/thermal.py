@@ -10,6 +10,7 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass
+from functools import cache
 from typing import Any
 
 from sheetlint.standards import load_table
@@ -106,10 +107,13 @@ def temperature_constant(conductor: str = "copper", standard: str = "iec_60034")
     IEC 60228: 234.5 copper, 228 aluminium [as quoted] (``standard="iec_60228"``).
     """
     name = conductor.strip().lower() if isinstance(conductor, str) else ""
-    if name == "aluminum":
-        name = "aluminium"
+    return _temperature_constant("aluminium" if name == "aluminum" else name, standard)
+
+
+@cache
+def _temperature_constant(conductor: str, standard: str) -> float | None:
     row = thermal_table()["resistance_temperature_constant_c"].get(standard, {})
-    value = row.get(name)
+    value = row.get(conductor)
     return float(value) if isinstance(value, int | float) else None
 
 
