@@ -274,10 +274,12 @@ class Sheet:
         actual_text: Mapping[str, str] | None = None,
     ) -> Finding:
         """Build a finding; SI values in ``expected``/``actual`` are shown in display units."""
-        exp = {k: display(k, v) for k, v in (expected or {}).items()}
-        act = {k: display(k, v) for k, v in (actual or {}).items()}
-        exp.update(expected_text or {})
-        act.update(actual_text or {})
+        exp = {k: display(k, v) for k, v in expected.items()} if expected else {}
+        act = {k: display(k, v) for k, v in actual.items()} if actual else {}
+        if expected_text:
+            exp.update(expected_text)
+        if actual_text:
+            act.update(actual_text)
         fields = tuple(fields)
         location = None
         if self.locate is not None:

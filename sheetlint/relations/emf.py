@@ -315,11 +315,11 @@ class VoltageMargin(Relation):
             return
         v = sheet.values
         margin = float(sheet.option(self.rule, "usual", USUAL_MARGIN))
-        note = f"hot back-EMF plus the usual {margin:.1%} (common practice)"
         if "rated.voltage" not in v and sheet.has("emf.constant_hot", "rated.speed"):
             e = v["emf.constant_hot"].value * v["rated.speed"].value
             yield Derivation("rated.voltage", e * (1 + margin), 0.01,
-                             ("emf.constant_hot", "rated.speed"), estimate=True, note=note)
+                             ("emf.constant_hot", "rated.speed"), estimate=True,
+                             note=f"hot back-EMF plus the usual {margin:.1%} (common practice)")
         if "emf.constant" not in v and sheet.has("rated.voltage", "rated.speed",
                                                  "rated.magnet_temperature"):
             hot = v["rated.magnet_temperature"].value
