@@ -47,6 +47,7 @@ CONVERTER_SOURCE = ("six-pulse diode bridge U_dc = 3·√2/π·U_LL and space-ve
 
 CheckMethod = Callable[[Relation, Sheet], Iterator[Finding]]
 _T = TypeVar("_T")
+_UNSET: Any = object()  # not in a memo yet
 
 
 def _guarded(check: CheckMethod) -> CheckMethod:
@@ -185,6 +186,52 @@ class _SheetMemo:
         value = shared[compute] = compute(sheet)
         return value
 
+    def model_inputs(self, sheet: Sheet, rule: str, temperature: str = "hot",
+                     need_inductances: bool = True) -> ModelInputs | None:
+        """:func:`model_inputs` of this memo's sheet."""
+        # a rule that derived nothing sees the same inputs as every other such rule
+        key = (rule if rule in self.own_rules else "*", temperature, need_inductances)
+        entries = self.inputs
+        inputs = entries.get(key, _UNSET)
+        if inputs is not _UNSET:
+            return inputs
+        inputs = None
+        if not need_inductances:
+            # the two readings differ only where the one with inductances is rejected
+            inputs = self.model_inputs(sheet, rule, temperature, True)
+        if inputs is None:
+            inputs = _model_inputs(sheet, rule, temperature, need_inductances)
+        entries[key] = inputs
+        return inputs
+
+    def rated_torque(self, sheet: Sheet) -> tuple[float, list[str], float] | None:
+        """Rated shaft torque [N*m] (given, or P/omega), its fields and uncertainty."""
+        return self.once(_rated_point_torque, sheet)
+
+    def voltage_limit(self, sheet: Sheet) -> VoltageLimit | None:
+        """:func:`converter_voltage_limit` of this memo's sheet."""
+        return self.once(converter_voltage_limit, sheet)
+
+    def operating_point(self, machine: DqMachine, torque: float, speed: float,
+                        line_voltage_limit: float | None = None) -> OperatingPoint:
+        """:func:`operating_point`, memoised by its arguments.
+
+        The MTPA point (no limit) is solved first and kept: ``dq-operating-point`` applies the
+        rated voltage to it and ``voltage-limit`` compares it with the converter's voltage.
+        """
+        points = self.points
+        key = (id(machine), torque, speed, line_voltage_limit)
+        entry = points.get(key)
+        if entry is not None:
+            return entry[1]
+        mtpa_key = (id(machine), torque, speed, None)
+        entry = points.get(mtpa_key)
+        if entry is None:
+            entry = points[mtpa_key] = (machine, operating_point(machine, torque, speed))
+        point = operating_point(machine, torque, speed, line_voltage_limit, mtpa=entry[1])
+        points[key] = (machine, point)
+        return point
+
 
 def _sheet_memo(sheet: Sheet) -> _SheetMemo:
     """The memo of ``sheet``: its current one, or a fresh one when the sheet grew."""
@@ -201,41 +248,7 @@ def model_inputs(sheet: Sheet, rule: str, temperature: str = "hot",
     Values derived by ``rule`` itself are not used (``Sheet.usable``); estimates are used but
     flagged, so that no error is raised on them. Worked out once per sheet.
     """
-    memo = _sheet_memo(sheet)
-    # a rule that derived nothing sees the same inputs as every other such rule
-    key = (rule if rule in memo.own_rules else "*", temperature, need_inductances)
-    entries = memo.inputs
-    if key in entries:
-        return entries[key]
-    inputs = None
-    if not need_inductances:
-        # the two readings differ only where the one with inductances is rejected
-        inputs = model_inputs(sheet, rule, temperature, True)
-    if inputs is None:
-        inputs = _model_inputs(sheet, rule, temperature, need_inductances)
-    entries[key] = inputs
-    return inputs
-
-
-def _operating_point(sheet: Sheet, machine: DqMachine, torque: float, speed: float,
-                     line_voltage_limit: float | None = None) -> OperatingPoint:
-    """:func:`operating_point`, memoised per sheet by its arguments.
-
-    The MTPA point (no limit) is solved first and kept: ``dq-operating-point`` applies the
-    rated voltage to it and ``voltage-limit`` compares it with the converter's voltage.
-    """
-    points = _sheet_memo(sheet).points
-    key = (id(machine), torque, speed, line_voltage_limit)
-    entry = points.get(key)
-    if entry is not None:
-        return entry[1]
-    mtpa_key = (id(machine), torque, speed, None)
-    entry = points.get(mtpa_key)
-    if entry is None:
-        entry = points[mtpa_key] = (machine, operating_point(machine, torque, speed))
-    point = operating_point(machine, torque, speed, line_voltage_limit, mtpa=entry[1])
-    points[key] = (machine, point)
-    return point
+    return _sheet_memo(sheet).model_inputs(sheet, rule, temperature, need_inductances)
 
 
 def _model_inputs(sheet: Sheet, rule: str, temperature: str,
@@ -293,11 +306,6 @@ def _model_inputs(sheet: Sheet, rule: str, temperature: str,
                        flux_unc + l_unc + 0.1 * r_unc, flux_field)
 
 
-def _rated_torque(sheet: Sheet) -> tuple[float, list[str], float] | None:
-    """Rated shaft torque [N*m] (given, or P/omega), its fields and uncertainty; once per sheet."""
-    return _sheet_memo(sheet).once(_rated_point_torque, sheet)
-
-
 def _rated_point_torque(sheet: Sheet) -> tuple[float, list[str], float] | None:
     return _point_torque(sheet, "rated")
 
@@ -322,11 +330,6 @@ class VoltageLimit:
     how: str
     fields: list[str]
     from_supply: bool
-
-
-def _voltage_limit(sheet: Sheet) -> VoltageLimit | None:
-    """:func:`converter_voltage_limit`, worked out once per sheet."""
-    return _sheet_memo(sheet).once(converter_voltage_limit, sheet)
 
 
 def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
@@ -478,9 +481,10 @@ class DqOperatingPoint(Relation):
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         rule = self.rule
         get = sheet.values.get
-        inputs = model_inputs(sheet, rule)
+        memo = _sheet_memo(sheet)
+        inputs = memo.model_inputs(sheet, rule)
         speed_known = get("rated.speed")
-        torque = _rated_torque(sheet)
+        torque = memo.rated_torque(sheet)
         if inputs is None or speed_known is None or torque is None or speed_known.value <= 0.0:
             return
         if not sheet.usable(rule, "rated.speed", *torque[1], allow_estimates=True):
@@ -505,7 +509,7 @@ class DqOperatingPoint(Relation):
         if rated_u is not None and rated_u.value > 0.0:
             # the rated voltage as written, widened by its own and Ke's written precision
             limit_value = rated_u.value * (1.0 + rated_u.uncertainty + inputs.uncertainty)
-        elif (limit := _voltage_limit(sheet)) is not None:
+        elif (limit := memo.voltage_limit(sheet)) is not None:
             limit_value = limit.line_rms
             notes.append(f"voltage limit: {limit.how}")
         else:
@@ -514,7 +518,7 @@ class DqOperatingPoint(Relation):
         base_fields = [*inputs.fields, "rated.speed", *torque_fields]
         unc = inputs.uncertainty + torque_unc + speed_known.uncertainty + base_tol
         machine = inputs.machine
-        nominal = _operating_point(sheet, machine, torque_em, speed, limit_value)
+        nominal = memo.operating_point(machine, torque_em, speed, limit_value)
 
         if nominal.region == "unreachable" and limit_value is not None:
             t_max = max_torque_at_speed(machine, 1e9, limit_value, speed)[0]
@@ -707,7 +711,8 @@ class VoltageLimitRelation(Relation):
 
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
-        limit = _voltage_limit(sheet)
+        memo = _sheet_memo(sheet)
+        limit = memo.voltage_limit(sheet)
         if limit is None:
             return
         rated_u = sheet.values.get("rated.voltage")
@@ -721,7 +726,7 @@ class VoltageLimitRelation(Relation):
                 ["rated.voltage", *limit.fields], expected={"rated.voltage": limit.line_rms},
                 actual={"rated.voltage": rated_u.value},
                 deviation=rated_u.value / limit.line_rms - 1.0)
-        inputs = model_inputs(sheet, self.rule, need_inductances=False)
+        inputs = memo.model_inputs(sheet, self.rule, need_inductances=False)
         if inputs is None:
             return
         machine = inputs.machine
@@ -736,10 +741,11 @@ class VoltageLimitRelation(Relation):
             if speed_known is None or speed_known.value <= 0.0:
                 continue
             speed = speed_known.value
-            torque = _rated_torque(sheet) if prefix == "rated" else _point_torque(sheet, prefix)
+            torque = (memo.rated_torque(sheet) if prefix == "rated"
+                      else _point_torque(sheet, prefix))
             emf = machine.flux_linkage * machine.pole_pairs * speed * math.sqrt(1.5)
             modelled = has_l and torque is not None and torque[0] > 0.0
-            need = (_operating_point(sheet, machine, torque[0], speed).line_voltage_rms
+            need = (memo.operating_point(machine, torque[0], speed).line_voltage_rms
                     if modelled and torque is not None else emf)
             margin = inputs.uncertainty + speed_known.uncertainty
             if need <= limit.line_rms * (1.0 + margin):
@@ -748,7 +754,7 @@ class VoltageLimitRelation(Relation):
             if modelled and torque is not None:
                 what = (f"the dq model needs {need:.0f} V (MTPA, {torque[0]:.4g} N·m at "
                         f"{_rpm(speed)})")
-                fw_point = _operating_point(sheet, machine, torque[0], speed, limit.line_rms)
+                fw_point = memo.operating_point(machine, torque[0], speed, limit.line_rms)
                 if fw_point.feasible:
                     fw = (f" With field weakening the point needs {fw_point.current_rms:.4g} A "
                           f"(i_d = {fw_point.id / SQRT2:.4g} A rms).")
@@ -816,8 +822,9 @@ class FieldWeakeningSpeed(Relation):
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         get = sheet.values.get
-        inputs = model_inputs(sheet, self.rule)
-        limit = _voltage_limit(sheet)
+        memo = _sheet_memo(sheet)
+        inputs = memo.model_inputs(sheet, self.rule)
+        limit = memo.voltage_limit(sheet)
         rated_i = get("rated.current")
         if inputs is None or limit is None or rated_i is None or rated_i.value <= 0.0:
             return
@@ -990,9 +997,10 @@ class PullOutMargin(Relation):
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         get = sheet.values.get
-        inputs = model_inputs(sheet, self.rule)
+        memo = _sheet_memo(sheet)
+        inputs = memo.model_inputs(sheet, self.rule)
         rated_u, speed = get("rated.voltage"), get("rated.speed")
-        torque = _rated_torque(sheet)
+        torque = memo.rated_torque(sheet)
         if (inputs is None or rated_u is None or speed is None or torque is None
                 or rated_u.value <= 0.0 or speed.value <= 0.0 or torque[0] <= 0.0):
             return
