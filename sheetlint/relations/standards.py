@@ -41,14 +41,17 @@ from sheetlint.standards.tolerances import TOLERANCE_EDITION, efficiency_toleran
 DEFAULT_COOLANT_C = 40.0
 RAD_PER_S_TO_RPM = 60.0 / (2.0 * math.pi)
 _EPS = 1e-9
+RISE_CLASS = "temperature-rise class"  # the labels of the class whose rise limit applies
+THERMAL_CLASS = "thermal class"
 
 
 def _governing_class(sheet: Sheet) -> tuple[int | None, str]:
     """The class whose rise limit applies: the temperature-rise class, else the thermal class."""
-    rise_class = class_number(sheet.attr("machine.temperature_rise_class"))
+    attributes = sheet.attributes
+    rise_class = class_number(attributes.get("machine.temperature_rise_class"))
     if rise_class is not None:
-        return rise_class, "temperature-rise class"
-    return class_number(sheet.attr("machine.thermal_class")), "thermal class"
+        return rise_class, RISE_CLASS
+    return class_number(attributes.get("machine.thermal_class")), THERMAL_CLASS
 
 
 def _celsius(sheet: Sheet, name: str) -> float | None:
@@ -112,11 +115,12 @@ class TemperatureRise(Relation):
     # --- derive ---------------------------------------------------------------------------
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
         governing, label = _governing_class(sheet)
-        if not sheet.has("circuit.resistance_hot"):
+        values = sheet.values
+        if "circuit.resistance_hot" not in values:
             hot = self._hot_resistance(sheet, governing, label)
             if hot is not None:
                 yield hot
-        if not sheet.has("rated.magnet_temperature") and governing is not None:
+        if "rated.magnet_temperature" not in values and governing is not None:
             reference = reference_temperature_c(governing)
             if reference is not None:
                 yield Derivation(
@@ -128,17 +132,18 @@ class TemperatureRise(Relation):
 
     def _hot_resistance(self, sheet: Sheet, governing: int | None,
                         label: str) -> Derivation | None:
-        resistance = sheet.get("circuit.resistance")
+        values = sheet.values
+        resistance = values.get("circuit.resistance")
         if resistance is None or not resistance.value > 0.0:
             return None
-        conductor = sheet.attr("machine.conductor") or "copper"
+        conductor = sheet.attributes.get("machine.conductor") or "copper"
         k = temperature_constant(conductor)
         if k is None:
             return None
         t1 = (resistance.temperature if resistance.temperature is not None else 293.15) \
             - ZERO_CELSIUS_K
-        rise = sheet.get("rated.temperature_rise")
-        ambient = sheet.get("machine.ambient")
+        rise = values.get("rated.temperature_rise")
+        ambient = values.get("machine.ambient")
         if rise is not None and math.isfinite(rise.value):
             coolant = DEFAULT_COOLANT_C if ambient is None else ambient.value - ZERO_CELSIUS_K
             t2 = coolant + rise.value
@@ -171,8 +176,9 @@ class TemperatureRise(Relation):
 
     # --- check ----------------------------------------------------------------------------
     def check(self, sheet: Sheet) -> Iterator[Finding]:
-        rise_class = class_number(sheet.attr("machine.temperature_rise_class"))
-        thermal_class = class_number(sheet.attr("machine.thermal_class"))
+        attributes = sheet.attributes
+        rise_class = class_number(attributes.get("machine.temperature_rise_class"))
+        thermal_class = class_number(attributes.get("machine.thermal_class"))
         if rise_class is not None and thermal_class is not None and rise_class > thermal_class:
             yield sheet.finding(
                 self, "error",
@@ -184,7 +190,8 @@ class TemperatureRise(Relation):
                 cause="the thermal class and the temperature-rise class may be swapped")
         if not sheet.usable(self.rule, "rated.temperature_rise"):
             return
-        governing, label = _governing_class(sheet)
+        governing, label = ((rise_class, RISE_CLASS) if rise_class is not None
+                            else (thermal_class, THERMAL_CLASS))
         if governing is None:
             return
         base = thermal_class_limit(governing)
@@ -194,10 +201,12 @@ class TemperatureRise(Relation):
                 f"no temperature-rise limit is held for {label} {governing}; the stated rise is "
                 "not checked", ("rated.temperature_rise",))
             return
-        yield from self._check_rise(sheet, governing, label, base)
+        finding = self._check_rise(sheet, governing, label, base)
+        if finding is not None:
+            yield finding
 
     def _check_rise(self, sheet: Sheet, governing: int, label: str,
-                    base: float) -> Iterator[Finding]:
+                    base: float) -> Finding | None:
         rise = sheet.values["rated.temperature_rise"]
         coolant = _celsius(sheet, "machine.ambient")
         altitude_known = sheet.get("machine.altitude")
@@ -205,7 +214,7 @@ class TemperatureRise(Relation):
         limit = corrected_rise_limit(base, coolant, altitude)
         lowest = rise.value * (1.0 - rise.uncertainty)
         if lowest <= limit.value + _EPS:
-            return
+            return None
         provenance = thermal_table()["temperature_rise_limit_k"][str(governing)]["provenance"]
         from_memory = provenance != "Q"
         below_40 = coolant is not None and coolant < DEFAULT_COOLANT_C
@@ -224,7 +233,7 @@ class TemperatureRise(Relation):
             fields.append("machine.ambient")
         if altitude is not None:
             fields.append("machine.altitude")
-        yield sheet.finding(
+        return sheet.finding(
             self, severity,
             f"stated temperature rise {rise.value:.4g} K exceeds the {limit.value:.4g} K limit "
             f"of {label} {governing}{detail}",

@@ -9,9 +9,8 @@ from __future__ import annotations
 
 import math
 import re
-from dataclasses import dataclass
 from functools import cache
-from typing import Any
+from typing import Any, NamedTuple
 
 from sheetlint.standards import load_table
 
@@ -41,9 +40,16 @@ def sizing_bands() -> dict[str, Any]:
     return load_table(BANDS_FILE)
 
 
+_CLASS_TYPES = (int, float, str)
+#: an integer of at most this size is exact as a float: ``class_number`` returns it unchanged
+_EXACT_IN_FLOAT = 2**53
+
+
 def class_number(value: object) -> int | None:
     """An IEC 60085 class number from a sheet attribute (``155``, ``"155"``, ``155.0``), or None."""
-    if isinstance(value, bool) or not isinstance(value, int | float | str):
+    if type(value) is int and -_EXACT_IN_FLOAT <= value <= _EXACT_IN_FLOAT:
+        return value  # the usual attribute; what the float round trip below would give
+    if value is None or isinstance(value, bool) or not isinstance(value, _CLASS_TYPES):
         return None
     try:
         number = float(value)
@@ -57,6 +63,21 @@ def class_number(value: object) -> int | None:
 def _class_key(thermal_class: object) -> str | None:
     number = class_number(thermal_class)
     return None if number is None else str(number)
+
+
+@cache
+def _rise_limits() -> dict[int, float]:
+    """Temperature-rise limit [K] by class number, from the table."""
+    rows = thermal_table()["temperature_rise_limit_k"]
+    return {int(key): float(row["limit"]) for key, row in rows.items()}
+
+
+@cache
+def _reference_temperatures_c() -> dict[int, float]:
+    """IEC 60034-2-1 reference temperature [degC] by class number, from the table."""
+    rows = thermal_table()["reference_temperature_c"]
+    return {int(key): float(value) for key, value in rows.items()
+            if isinstance(value, int | float)}
 
 
 def thermal_class_limit(thermal_class: object) -> float | None:
@@ -75,9 +96,8 @@ def thermal_class_limit(thermal_class: object) -> float | None:
     float or None
         Limit. [K]
     """
-    key = _class_key(thermal_class)
-    row = thermal_table()["temperature_rise_limit_k"].get(key) if key else None
-    return None if row is None else float(row["limit"])
+    number = class_number(thermal_class)
+    return None if number is None else _rise_limits().get(number)
 
 
 def insulation_max_temperature(thermal_class: object) -> float | None:
@@ -95,9 +115,8 @@ def reference_temperature_c(thermal_class: object) -> float | None:
 
     95 degC for 130 (B), 115 degC for 155 (F), 135 degC for 180 (H) [from memory].
     """
-    key = _class_key(thermal_class)
-    value = thermal_table()["reference_temperature_c"].get(key) if key else None
-    return float(value) if isinstance(value, int | float) else None
+    number = class_number(thermal_class)
+    return None if number is None else _reference_temperatures_c().get(number)
 
 
 def temperature_constant(conductor: str = "copper", standard: str = "iec_60034") -> float | None:
@@ -106,14 +125,14 @@ def temperature_constant(conductor: str = "copper", standard: str = "iec_60034")
     IEC 60034-1 / 60034-2-1: 235 copper, 225 aluminium [from memory];
     IEC 60228: 234.5 copper, 228 aluminium [as quoted] (``standard="iec_60228"``).
     """
-    name = conductor.strip().lower() if isinstance(conductor, str) else ""
-    return _temperature_constant("aluminium" if name == "aluminum" else name, standard)
+    return _temperature_constant(conductor if isinstance(conductor, str) else "", standard)
 
 
 @cache
 def _temperature_constant(conductor: str, standard: str) -> float | None:
+    name = conductor.strip().lower()
     row = thermal_table()["resistance_temperature_constant_c"].get(standard, {})
-    value = row.get(conductor)
+    value = row.get("aluminium" if name == "aluminum" else name)
     return float(value) if isinstance(value, int | float) else None
 
 
@@ -147,8 +166,7 @@ def resistance_at(r1: float, t1_c: float, t2_c: float, conductor: str = "copper"
     return r1 * (k + t2_c) / (k + t1_c)
 
 
-@dataclass(frozen=True, slots=True)
-class RiseLimit:
+class RiseLimit(NamedTuple):
     """A temperature-rise limit after the site corrections of IEC 60034-1.
 
     ``base`` is the 40 degC / 1000 m limit, ``value`` the corrected one [K]; ``notes`` say
@@ -184,6 +202,9 @@ def corrected_rise_limit(base_limit_k: float, coolant_c: float | None,
     """
     rules = thermal_table()["site_correction"]
     reference_c = rules["coolant_reference_c"]
+    if (coolant_c is None or not coolant_c > reference_c) and (
+            altitude_m is None or altitude_m <= rules["altitude_reference_m"]):
+        return RiseLimit(base_limit_k, base_limit_k, ())  # no correction applies
     value = base_limit_k
     notes: list[str] = []
     beyond = False
