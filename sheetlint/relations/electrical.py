@@ -11,7 +11,9 @@ from sheetlint.relations.registry import register
 from sheetlint.standards.tolerances import efficiency_tolerance, power_factor_tolerance
 
 SQRT3 = math.sqrt(3.0)
+INVERSE_SQRT3 = 1.0 / SQRT3
 LOSS_PARTS = ("copper", "iron", "friction", "stray")
+LOSS_PART_FIELDS = tuple(f"rated.losses.{part}" for part in LOSS_PARTS)
 
 
 def _resistance_field(sheet: Sheet) -> str:
@@ -59,12 +61,13 @@ class ElectricalPower(Monomial):
     order = 12
 
     def constant(self, sheet: Sheet) -> float:
-        return 1.0 / SQRT3
+        return INVERSE_SQRT3
 
     def allowance(self, sheet: Sheet) -> float:
-        eta = sheet.values[self.at("rated.efficiency")].value
-        cos_phi = sheet.values[self.at("rated.power_factor")].value
-        power = sheet.values[self.at("rated.power")].value
+        values, at = sheet.values, self.at
+        eta = values[at("rated.efficiency")].value
+        cos_phi = values[at("rated.power_factor")].value
+        power = values[at("rated.power")].value
         return efficiency_tolerance(eta, power) / eta + power_factor_tolerance(cos_phi) / cos_phi
 
 
@@ -146,32 +149,42 @@ class LossBalance(Relation):
                     ("rated.losses", "rated.power", "rated.efficiency"),
                     expected={"rated.losses": expected}, actual={"rated.losses": loss.value},
                     deviation=deviation)
-        parts = [f"rated.losses.{n}" for n in LOSS_PARTS if sheet.given(f"rated.losses.{n}")]
-        if "rated.losses" in v and len(parts) >= 2:
-            total = sum(v[p].value for p in parts)
-            slack = sum(v[p].value * v[p].uncertainty for p in parts)
-            loss = v["rated.losses"]
-            slack += loss.value * loss.uncertainty
-            complete = len(parts) == len(LOSS_PARTS)
-            if total > loss.value + slack or (complete and total < loss.value - slack):
-                word = "exceed" if total > loss.value else "fall short of"
-                yield sheet.finding(
-                    self, "error", f"the stated loss parts ({', '.join(p[13:] for p in parts)}) "
-                    f"{word} the total losses", ("rated.losses", *parts),
-                    expected={"rated.losses": total}, actual={"rated.losses": loss.value},
-                    deviation=loss.value / total - 1.0)
-        yield from self._copper_bound(sheet)
+        if "rated.losses" in v:
+            finding = self._parts_sum(sheet)
+            if finding is not None:
+                yield finding
+        finding = self._copper_bound(sheet)
+        if finding is not None:
+            yield finding
 
-    def _copper_bound(self, sheet: Sheet) -> Iterator[Finding]:
+    def _parts_sum(self, sheet: Sheet) -> Finding | None:
+        v = sheet.values
+        parts = [p for p in LOSS_PART_FIELDS if sheet.given(p)]
+        if len(parts) < 2:
+            return None
+        total = sum(v[p].value for p in parts)
+        slack = sum(v[p].value * v[p].uncertainty for p in parts)
+        loss = v["rated.losses"]
+        slack += loss.value * loss.uncertainty
+        complete = len(parts) == len(LOSS_PARTS)
+        if total > loss.value + slack or (complete and total < loss.value - slack):
+            word = "exceed" if total > loss.value else "fall short of"
+            return sheet.finding(
+                self, "error", f"the stated loss parts ({', '.join(p[13:] for p in parts)}) "
+                f"{word} the total losses", ("rated.losses", *parts),
+                expected={"rated.losses": total}, actual={"rated.losses": loss.value},
+                deviation=loss.value / total - 1.0)
+        return None
+
+    def _copper_bound(self, sheet: Sheet) -> Finding | None:
         v = sheet.values
         resistance = _resistance_field(sheet)
         if not sheet.usable(self.rule, "rated.current", resistance, "rated.losses",
                             allow_estimates=True):
-            return
+            return None
         i, r, loss = v["rated.current"], v[resistance], v["rated.losses"]
         copper = 3.0 * i.value ** 2 * r.value
         tolerance = 2 * i.uncertainty + r.uncertainty + loss.uncertainty
-        estimated = any(k.is_estimate for k in (i, r, loss))
         limit_name, limit = "rated.losses", loss.value
         if sheet.given("rated.losses.copper"):
             limit_name, limit = "rated.losses.copper", v["rated.losses.copper"].value
@@ -184,15 +197,17 @@ class LossBalance(Relation):
                 cause = ("agrees if circuit.resistance is line-to-line (terminal-to-terminal) "
                          "rather than per phase (×2)")
             stated = sheet.get("circuit.resistance")
+            estimated = i.is_estimate or r.is_estimate or loss.is_estimate
             severity = "warning" if estimated or (cause and stated and not stated.basis_stated) \
                 else "error"
-            yield sheet.finding(
+            return sheet.finding(
                 self, severity,  # type: ignore[arg-type]
                 f"copper loss 3·I²·R = {copper:.0f} W of the rated current exceeds "
                 f"{limit_name} ({limit:.0f} W)", ("circuit.resistance", "rated.current",
                                                   limit_name),
                 expected={limit_name: copper}, actual={limit_name: limit},
                 deviation=limit / copper - 1.0, cause=cause)
+        return None
 
 
 @register

@@ -47,10 +47,10 @@ def efficiency_tolerance(eta: float, power_w: float) -> float:
     .. [1] IEC 60034-1:2010, Rotating electrical machines -- Part 1: Rating and performance,
        table of tolerances (as quoted).
     """
-    if not (math.isfinite(eta) and math.isfinite(power_w)):
+    if not (math.isfinite(eta) and math.isfinite(power_w) and eta < 1.0):
         return 0.0
     share = 0.15 if power_w <= EFFICIENCY_TOLERANCE_STEP_W else 0.10
-    return share * max(0.0, 1.0 - eta)
+    return share * (1.0 - eta)
 
 
 def power_factor_tolerance(cos_phi: float) -> float:
@@ -80,4 +80,7 @@ def power_factor_tolerance(cos_phi: float) -> float:
     """
     if not math.isfinite(cos_phi):
         return 0.02
-    return min(0.07, max(0.02, (1.0 - cos_phi) / 6.0))
+    shortfall = (1.0 - cos_phi) / 6.0  # clipped to 0.02..0.07 by comparisons (cheaper)
+    if shortfall < 0.02:
+        return 0.02
+    return 0.07 if shortfall > 0.07 else shortfall
