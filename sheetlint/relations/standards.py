@@ -41,6 +41,9 @@ from sheetlint.standards.tolerances import TOLERANCE_EDITION, efficiency_toleran
 DEFAULT_COOLANT_C = 40.0
 RAD_PER_S_TO_RPM = 60.0 / (2.0 * math.pi)
 _EPS = 1e-9
+#: (peak field, rated field, the attribute that holds the peak's stated duration)
+PEAK_RATINGS = (("limits.peak_torque", "rated.torque", "limits.peak_torque.duration"),
+                ("limits.peak_current", "rated.current", "limits.peak_current.duration"))
 RISE_CLASS = "temperature-rise class"  # the labels of the class whose rise limit applies
 THERMAL_CLASS = "thermal class"
 
@@ -293,7 +296,7 @@ class EfficiencyClass(Relation):
     order = 80
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
-        claim = sheet.attr("efficiency_class")
+        claim = sheet.attributes.get("efficiency_class")
         if claim is None:
             return
         ie_class = parse_ie_class(claim)
@@ -414,19 +417,20 @@ class EfficiencyClass(Relation):
 
 def _band_finding(relation: Relation, sheet: Sheet, quantity: str, value: float,
                   band: tuple[float, float | None], unit: str, fields: tuple[str, ...],
-                  cause: str | None, what: str) -> Iterator[Finding]:
+                  cause: str | None, what: str) -> Finding | None:
+    """A warning when ``value`` lies outside ``band``; None inside it."""
     low, high = band
     if low is not None and value < low:
         edge, side = low, "below"
     elif high is not None and value > high:
         edge, side = high, "above"
     else:
-        return
+        return None
     if high is None:
         band_text = f">= {low:g} {unit}"
     else:
         band_text = f"{low:g}-{high:g} {unit}" if low else f"<= {high:g} {unit}"
-    yield sheet.finding(
+    return sheet.finding(
         relation, "warning",
         f"{what} {value:.3g} {unit} is {side} the usual band {band_text} (a band from memory, "
         "not a limit)", fields, deviation=value / edge - 1.0 if edge else None,
@@ -491,10 +495,12 @@ class RotorTorqueDensity(Relation):
         table = sizing_bands()["torque_per_rotor_volume_knm_per_m3"]["by_cooling"]
         band = _option_band(sheet, self.rule, "band_knm_per_m3", tuple(table[group]))
         cooling = sheet.attr("machine.cooling") or "cooling not stated"
-        yield from _band_finding(
+        finding = _band_finding(
             self, sheet, "torque_per_rotor_volume", trv / 1e3, band, "kN*m/m^3", self.fields,
             "the diameter and length may be the frame's rather than the rotor's, or the rated "
             "torque a peak value", f"torque per rotor volume ({cooling}, {group})")
+        if finding is not None:
+            yield finding
 
 
 @register
@@ -548,10 +554,12 @@ class SpecificLosses(Relation):
         upper = sheet.option(self.rule, "upper_w_per_kg", default)
         if not isinstance(upper, int | float):
             upper = default
-        yield from _band_finding(
+        finding = _band_finding(
             self, sheet, "losses_per_mass", losses / mass, (0.0, float(upper)), "W/kg", fields,
             "the mass may belong to another rating, or the efficiency or power is off",
             f"losses per unit mass ({sheet.attr('machine.cooling') or 'cooling not stated'})")
+        if finding is not None:
+            yield finding
 
 
 @register
@@ -588,6 +596,9 @@ class OverloadRatio(Relation):
     order = 80
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
+        values = sheet.values
+        if "limits.peak_torque" not in values and "limits.peak_current" not in values:
+            return  # no peak value: no ratio to check
         table = sizing_bands()["peak_to_rated_ratio"]
         ratios: dict[str, float] = {}
         for name, peak, rated in (("torque", "limits.peak_torque", "rated.torque"),
@@ -606,10 +617,12 @@ class OverloadRatio(Relation):
             band = (low * (1.0 - slack), None if high is None else high * (1.0 + slack))
             if band[0] <= ratio and (band[1] is None or ratio <= band[1]):
                 continue
-            yield from _band_finding(
+            finding = _band_finding(
                 self, sheet, f"peak_to_rated_{name}", ratio, (low, high), "", (peak, rated),
                 "the peak and rated values may be on different bases (peak vs rms) or belong "
                 "to different ratings", f"peak-to-rated {name} ratio")
+            if finding is not None:
+                yield finding
         if sheet.attr("machine.topology") == "spm" and len(ratios) == 2:
             slack = sum(sheet.get(f).uncertainty for f in self.fields)
             margin = float(sheet.option(self.rule, "margin", 0.05))
@@ -660,14 +673,17 @@ class ShortTimeRating(Relation):
     order = 80
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
+        attributes = sheet.attributes
+        if (attributes.get("limits.peak_torque.duration") is None
+                and attributes.get("limits.peak_current.duration") is None):
+            return  # no duration stated
         default = sizing_bands()["short_time_rating"]["continuous_after_s"]
         threshold = sheet.option(self.rule, "continuous_after_s", default)
         if not isinstance(threshold, int | float):
             threshold = default
         duty = sheet.attr("machine.duty") or "duty not stated"
-        for peak, rated in (("limits.peak_torque", "rated.torque"),
-                            ("limits.peak_current", "rated.current")):
-            duration = sheet.attr(f"{peak}.duration")
+        for peak, rated, duration_name in PEAK_RATINGS:
+            duration = attributes.get(duration_name)
             if (not isinstance(duration, int | float) or isinstance(duration, bool)
                     or not math.isfinite(duration) or duration < threshold):
                 continue
