@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import difflib
 import math
+from collections.abc import Mapping
 from functools import cache
 from typing import Any
 
@@ -54,18 +55,19 @@ def thermal_class_number(value: Any) -> int | str | None:
 
 
 @cache
-def _basis_plan(path: str) -> tuple[dict[str, float] | None, str | None]:
-    """(factor per stated basis, default basis) of a field path; (None, None) without bases."""
+def _given_plan(path: str) -> tuple[dict[str, float] | None, str | None, Mapping[str, float]]:
+    """(factor per stated basis, default basis, sensitivity) of a field path, worked out once;
+    (None, None, ...) for a field without bases."""
     spec = spec_for(path)
     kind = spec.kind if spec else "ratio"
     if kind not in BASES:
-        return None, None
-    return BASIS_FACTOR[kind], BASES[kind][0]
+        return None, None, own_sensitivity(path)
+    return BASIS_FACTOR[kind], BASES[kind][0], own_sensitivity(path)
 
 
 def _known(path: str, m: Measured, temperature: float | None = None) -> Known:
     """The sheet's value of a measured field: SI, in the canonical basis, given."""
-    factors, default = _basis_plan(path)
+    factors, default, sensitivity = _given_plan(path)
     basis = m.basis
     reading = m.reading
     return Known(
@@ -79,10 +81,19 @@ def _known(path: str, m: Measured, temperature: float | None = None) -> Known:
         temperature if temperature is not None else m.temperature,
         None,
         None,
-        own_sensitivity(path),
+        sensitivity,
         None,
         reading,  # the written text, made when first asked for
     )
+
+
+#: (attribute, field path) of the rated point and of the machine's measured fields
+_RATED_FIELDS = tuple((name, f"rated.{name}") for name in POINT_FIELDS)
+_MACHINE_FIELDS = tuple((name, f"machine.{name}")
+                        for name in ("altitude", "mass", "inertia", "rotor_diameter",
+                                     "stack_length"))
+_LIMIT_FIELDS = tuple((name, f"limits.{name}")
+                      for name in ("max_speed", "peak_torque", "peak_current"))
 
 
 def build_sheet(record: MachineRecord, settings: Settings | None = None,
@@ -99,8 +110,8 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
                 odd_qualifiers.append((path, m))
 
     machine, rated, emf = record.machine, record.rated, record.emf
-    for name in POINT_FIELDS:
-        put(f"rated.{name}", getattr(rated, name))
+    for name, path in _RATED_FIELDS:
+        put(path, getattr(rated, name))
     for i, point in enumerate(record.points):
         for name in POINT_FIELDS:
             put(f"points[{i}].{name}", getattr(point, name))
@@ -120,8 +131,8 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
         put("machine.ambient", machine.ambient)
         if "min" in machine.ambient.extras:
             put("machine.ambient.min", machine.ambient.extras["min"])
-    for name in ("altitude", "mass", "inertia", "rotor_diameter", "stack_length"):
-        put(f"machine.{name}", getattr(machine, name))
+    for name, path in _MACHINE_FIELDS:
+        put(path, getattr(machine, name))
     magnet_temperature = emf.magnet_temperature.value if emf.magnet_temperature else ROOM
     put("emf.magnet_temperature", emf.magnet_temperature)
     put("emf.constant", emf.constant, magnet_temperature)
@@ -139,8 +150,8 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
     put("circuit.ld", circuit.ld)
     put("circuit.lq", circuit.lq)
     limits = record.limits
-    for name in ("max_speed", "peak_torque", "peak_current"):
-        put(f"limits.{name}", getattr(limits, name))
+    for name, path in _LIMIT_FIELDS:
+        put(path, getattr(limits, name))
     put("supply.mains_voltage", record.supply.mains_voltage)
     put("supply.dc_link_voltage", record.supply.dc_link_voltage)
 

@@ -135,8 +135,9 @@ class Monomial(Relation):
 
     # --- derive -----------------------------------------------------------------------------
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
-        for variant in self.variants(sheet):
-            yield from variant.derive_one(sheet)
+        if not self.per_point:
+            return self.derive_one(sheet)
+        return (d for variant in self.variants(sheet) for d in variant.derive_one(sheet))
 
     def derive_one(self, sheet: Sheet) -> Iterator[Derivation]:
         values = sheet.values
