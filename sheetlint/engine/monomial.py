@@ -27,6 +27,10 @@ from sheetlint.engine.core import (
 
 _PENDING: Any = object()  # coefficients not resolved yet
 
+#: (term fields, exponents) -> (term items, fields, exponents) of an overridden ``field_names``
+_TERM_PLANS: dict[tuple[tuple[str, ...], tuple[float, ...]],
+                  tuple[tuple[tuple[str, float], ...], tuple[str, ...], tuple[float, ...]]] = {}
+
 
 @dataclass(slots=True)
 class Evaluation:
@@ -130,8 +134,12 @@ class Monomial(Relation):
         if type(self).field_names is Monomial.field_names:
             plan = self._variant_plan()
             return plan[1], plan[3], plan[4]
-        items = tuple(self.field_names(sheet).items())
-        return items, tuple(n for n, _ in items), tuple(e for _, e in items)
+        terms = self.field_names(sheet)
+        key = (tuple(terms), tuple(terms.values()))
+        found = _TERM_PLANS.get(key)
+        if found is None:
+            found = _TERM_PLANS[key] = (tuple(zip(*key, strict=True)), *key)
+        return found
 
     # --- derive -----------------------------------------------------------------------------
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:

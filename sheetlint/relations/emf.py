@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterator
+from typing import ClassVar
 
 from sheetlint.engine.core import Derivation, Finding, Relation, Sheet
 from sheetlint.engine.monomial import Evaluation, Monomial
@@ -102,10 +103,14 @@ class EmfVoltage(Monomial):
     derive_inputs = ("emf.voltage", "emf.constant", "emf.speed", "rated.speed")
     order = 20
 
+    #: the terms when the sheet gives no speed of its own for the back-EMF
+    terms_at_rated_speed: ClassVar[dict[str, float]] = {
+        "emf.voltage": 1.0, "emf.constant": -1.0, "rated.speed": -1.0}
+
     def field_names(self, sheet: Sheet) -> dict[str, float]:
         if "emf.speed" in sheet.values or "rated.speed" not in sheet.values:
             return self.terms
-        return {"emf.voltage": 1.0, "emf.constant": -1.0, "rated.speed": -1.0}
+        return self.terms_at_rated_speed
 
     def describe(self, sheet: Sheet, evaluation: Evaluation) -> str:
         return "back-EMF and Ke disagree"
