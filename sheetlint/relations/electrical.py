@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 from collections.abc import Iterator
 
-from sheetlint.engine.core import Derivation, Finding, Relation, Sheet
+from sheetlint.engine.core import GIVEN, Derivation, Finding, Relation, Sheet
 from sheetlint.engine.monomial import Monomial
 from sheetlint.relations.registry import register
 from sheetlint.standards.tolerances import efficiency_tolerance, power_factor_tolerance
@@ -159,7 +159,7 @@ class LossBalance(Relation):
 
     def _parts_sum(self, sheet: Sheet) -> Finding | None:
         v = sheet.values
-        parts = [p for p in LOSS_PART_FIELDS if sheet.given(p)]
+        parts = [p for p in LOSS_PART_FIELDS if p in v and v[p].origin == GIVEN]
         if len(parts) < 2:
             return None
         total = sum(v[p].value for p in parts)

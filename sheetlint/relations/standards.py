@@ -29,7 +29,6 @@ from sheetlint.standards.thermal import (
     cooling_group,
     corrected_rise_limit,
     reference_temperature_c,
-    resistance_at,
     sizing_bands,
     temperature_constant,
     thermal_class_limit,
@@ -168,7 +167,9 @@ class TemperatureRise(Relation):
             where = (f"IEC 60034-2-1 reference temperature {reference:g} degC of the {label} "
                      f"{governing} (from memory; the sheet states no temperature rise)")
             estimate = resistance.is_estimate
-        value = resistance_at(resistance.value, t1, t2, conductor)
+        if k + t1 <= 0.0 or k + t2 <= 0.0:
+            return None  # a temperature at or below -k: no resistance (see resistance_at)
+        value = resistance.value * (k + t2) / (k + t1)  # resistance_at, with k known here
         if not math.isfinite(value):
             return None
         uncertainty = resistance.uncertainty + spread / (k + t2)
