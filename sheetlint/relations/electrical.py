@@ -124,8 +124,8 @@ class LossBalance(Relation):
             u = loss.uncertainty + eta.uncertainty / (eta.value * (1.0 - eta.value))
             yield Derivation("rated.power", power, u, ("rated.efficiency", "rated.losses"),
                              estimate=eta.is_estimate or loss.is_estimate)
-        if "rated.losses.copper" not in v and sheet.has("rated.current") and (
-                "circuit.resistance_hot" in v):
+        if ("rated.losses.copper" not in v and "rated.current" in v
+                and "circuit.resistance_hot" in v):
             i, r = v["rated.current"], v["circuit.resistance_hot"]
             yield Derivation("rated.losses.copper", 3.0 * i.value ** 2 * r.value,
                              2 * i.uncertainty + r.uncertainty,

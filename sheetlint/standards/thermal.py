@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import math
 import re
-from functools import cache
+from functools import cache, lru_cache
 from typing import Any, NamedTuple
 
 from sheetlint.standards import load_table
@@ -47,9 +47,11 @@ _EXACT_IN_FLOAT = 2**53
 
 def class_number(value: object) -> int | None:
     """An IEC 60085 class number from a sheet attribute (``155``, ``"155"``, ``155.0``), or None."""
+    if value is None:
+        return None
     if type(value) is int and -_EXACT_IN_FLOAT <= value <= _EXACT_IN_FLOAT:
         return value  # the usual attribute; what the float round trip below would give
-    if value is None or isinstance(value, bool) or not isinstance(value, _CLASS_TYPES):
+    if isinstance(value, bool) or not isinstance(value, _CLASS_TYPES):
         return None
     try:
         number = float(value)
@@ -180,6 +182,18 @@ class RiseLimit(NamedTuple):
     beyond_rules: bool = False
 
 
+@cache
+def _site_correction() -> dict[str, Any]:
+    """The site-correction rules of the thermal table."""
+    return thermal_table()["site_correction"]
+
+
+@lru_cache(maxsize=16, typed=True)
+def _uncorrected(base_limit_k: float) -> RiseLimit:
+    """A limit no site correction applies to (one shared value per class limit)."""
+    return RiseLimit(base_limit_k, base_limit_k, ())
+
+
 def corrected_rise_limit(base_limit_k: float, coolant_c: float | None,
                          altitude_m: float | None) -> RiseLimit:
     """Correct a temperature-rise limit for coolant temperature and altitude [from memory].
@@ -200,11 +214,11 @@ def corrected_rise_limit(base_limit_k: float, coolant_c: float | None,
     altitude_m : float or None
         Site altitude. [m]
     """
-    rules = thermal_table()["site_correction"]
+    rules = _site_correction()
     reference_c = rules["coolant_reference_c"]
     if (coolant_c is None or not coolant_c > reference_c) and (
             altitude_m is None or altitude_m <= rules["altitude_reference_m"]):
-        return RiseLimit(base_limit_k, base_limit_k, ())  # no correction applies
+        return _uncorrected(base_limit_k)
     value = base_limit_k
     notes: list[str] = []
     beyond = False
