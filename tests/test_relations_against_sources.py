@@ -59,6 +59,41 @@ def test_a_speed_four_percent_under_synchronous_reads_as_induction_slip():
     assert hits and "slip" in (hits[0].cause or "")
 
 
+def test_no_pole_count_stated_and_no_integral_one_fits_frequency_and_speed_is_an_error():
+    # n = 120·f/poles (Fitzgerald, Kingsley & Umans, Electric Machinery, 6th ed., ch. 4
+    # [M: chapter from memory]): 1440 r/min at 50 Hz gives 120·50/1440 = 4.167 poles, no
+    # integer; 4 poles would turn at 1500 r/min, so the speed is 4.0 % under synchronous:
+    # a 4-pole induction motor's slip (a few %: any machines text).
+    data = {"id": "S", "rated": {"speed": "1440 rpm", "frequency": "50 Hz"}}
+    hits = [f for f in serious(run(data)) if f.rule == "synchronous-speed"]
+    assert len(hits) == 1 and hits[0].severity == "error"
+    assert "4.167 poles" in hits[0].message
+    assert hits[0].cause is not None and "4.0% under the synchronous speed of 4 poles" in \
+        hits[0].cause
+    # the same sheet at 1500 r/min derives 2 pole pairs and says nothing
+    synchronous = {"id": "S", "rated": {"speed": "1500 rpm", "frequency": "50 Hz"}}
+    result = run(synchronous)
+    assert not [f for f in result.findings if f.rule == "synchronous-speed"]
+    assert result.derived["machine.pole_pairs"].value == 2
+
+
+def test_kt_without_magnet_temperature_says_which_reading_of_ke_it_fits():
+    # Kt = √3·Ke from the power balance T·ω = √3·E·I (REFERENCES §4 [D]; Krishnan, Permanent
+    # Magnet Synchronous and Brushless DC Motor Drives, CRC 2010 [M: chapter]). Ke
+    # 100 V/krpm at 20 °C gives Kt 1.654 N·m/A at 20 °C; NdFeB at 120 °C (α −0.11 %/K,
+    # REFERENCES §6) 1.472 N·m/A. A Kt with no stated temperature gets an info naming the fit.
+    base = {"id": "K", "machine": {"topology": "spm"},
+            "rated": {"magnet_temperature": "120 °C"},
+            "emf": {"constant": "100.0 V/krpm", "magnet_temperature": "20 °C"}}
+    for kt, reading in (("1.654 N*m/A", "at the Ke temperature (20 °C)"),
+                        ("1.472 N*m/A", "at the rated magnet temperature (120 °C)")):
+        result = run(dict(base, torque_constant=kt))
+        assert not [f for f in serious(result) if f.rule == "emf-constant"]
+        infos = [f for f in result.findings if f.rule == "emf-constant" and
+                 "does not state the magnet temperature of Kt" in f.message]
+        assert len(infos) == 1 and infos[0].message.endswith(reading)
+
+
 def test_electrical_power_allows_the_iec_60034_1_tolerance_on_efficiency_and_power_factor():
     # IEC 60034-1:2010 tolerances as quoted in REFERENCES §1: η −15 % of (1 − η) (≤150 kW),
     # cos φ −(1 − cos φ)/6 (min 0.02). 15 kW, 400 V, η 0.93, cos φ 0.85:

@@ -226,10 +226,21 @@ class Monomial(Relation):
         return self.title
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
+        """The product-of-powers failures of every variant, then :meth:`extra_findings`.
+
+        The engine does not call this: it evaluates the variants itself (the cause diagnosis
+        needs every evaluation) and then asks for :meth:`extra_findings`.
+        """
         for variant in self.variants(sheet):
             evaluation = variant.evaluate(sheet)
             if evaluation is not None and abs(evaluation.residual) > evaluation.tolerance:
                 yield variant.failure(sheet, evaluation)
+        yield from self.extra_findings(sheet)
+
+    def extra_findings(self, sheet: Sheet) -> Iterator[Finding]:
+        """Findings of this rule beyond the product of powers (e.g. no integral pole count),
+        checked once per sheet, not per operating point. Override to add some."""
+        return iter(())
 
     def severity(self, sheet: Sheet, evaluation: Evaluation) -> str:
         """error by default; warning when an estimate took part."""

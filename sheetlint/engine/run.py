@@ -179,6 +179,8 @@ def check_relation(relation: Any, sheet: Sheet, findings: list[Finding],
                 if abs(evaluation.residual) > evaluation.tolerance:
                     evaluation.finding = variant.failure(sheet, evaluation)
                 evaluations.append(evaluation)
+            if type(relation).extra_findings is not Monomial.extra_findings:
+                findings.extend(relation.extra_findings(sheet))
             return
         findings.extend(relation.check(sheet))
     except NUMERIC_FAILURES as exc:

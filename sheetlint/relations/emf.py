@@ -214,8 +214,8 @@ class TorqueConstant(Monomial):
                              else "Kt's magnet temperature unstated: taken as 20 °C",
                              sources=((kt, 1.0),))
 
-    def check(self, sheet: Sheet) -> Iterator[Finding]:
-        yield from super().check(sheet)
+    def extra_findings(self, sheet: Sheet) -> Iterator[Finding]:
+        """Kt's magnet temperature unstated: which reading √3·Ke fits best (info)."""
         if _kt_temperature_factor(sheet) is None and sheet.given("torque_constant") and \
                 sheet.given("emf.constant"):
             reading = self._best_reading(sheet)

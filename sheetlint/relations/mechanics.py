@@ -125,8 +125,8 @@ class SynchronousSpeed(Monomial):
                              ("rated.frequency", "rated.speed"),
                              note="nearest integer to 2π·f/ω")
 
-    def check(self, sheet: Sheet) -> Iterator[Finding]:
-        yield from super().check(sheet)
+    def extra_findings(self, sheet: Sheet) -> Iterator[Finding]:
+        """No pole count stated, and frequency and speed give no integral one."""
         values = sheet.values
         if "machine.pole_pairs" in values or not sheet.usable(self.rule, "rated.speed",
                                                               "rated.frequency"):
