@@ -34,12 +34,12 @@ from __future__ import annotations
 import difflib
 import math
 import tomllib
-from collections.abc import Callable, Iterable
+from collections.abc import Callable, Iterable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from sheetlint.engine.core import SEVERITY_RANK, Settings
+from sheetlint.engine.core import SEVERITY_RANK, RuleOption, Settings
 
 SHEETLINT_TOML = "sheetlint.toml"
 PYPROJECT_TOML = "pyproject.toml"
@@ -50,6 +50,8 @@ TOP_LEVEL_KEYS = ("select", "ignore", "fail-on", "rules")
 ENGINE_RULES = ("unreadable",)
 
 OptionValue = bool | float | str | tuple[Any, ...]
+#: returns each rule's declared options
+OptionDeclarations = Callable[[], Mapping[str, Mapping[str, RuleOption]]]
 
 
 class ConfigError(Exception):
@@ -215,7 +217,8 @@ def _option_value(where: str, value: Any) -> OptionValue:
 def resolve(*, config: str | None = None, use_config: bool = True,
             select: Iterable[str] | None = None, ignore: Iterable[str] | None = None,
             fail_on: str | None = None, start: str | Path | None = None,
-            known_rules: Callable[[], Iterable[str]] | None = None) -> Resolved:
+            known_rules: Callable[[], Iterable[str]] | None = None,
+            known_options: OptionDeclarations | None = None) -> Resolved:
     """Merge defaults, the configuration file and command-line values (the command line wins).
 
     Parameters
@@ -231,6 +234,9 @@ def resolve(*, config: str | None = None, use_config: bool = True,
     known_rules : callable, optional
         Returns the rule ids that exist (default: the relation registry); ids not among them
         become warnings.
+    known_options : callable, optional
+        Returns each rule's declared options (default: the relation registry): a value of
+        the wrong kind raises ConfigError, an undeclared option becomes a warning.
 
     Raises
     ------
@@ -258,7 +264,52 @@ def resolve(*, config: str | None = None, use_config: bool = True,
         file_config.path,
     )
     resolved.warnings = _unknown_rule_warnings(file_config, cli_select, cli_ignore, known_rules)
+    resolved.warnings += _check_rule_options(file_config, known_options)
     return resolved
+
+
+def _check_rule_options(file_config: FileConfig,
+                        known_options: OptionDeclarations | None) -> list[str]:
+    """Each rule option against the rule's declaration: a value of the wrong kind is a
+    ConfigError (naming the file and key); an option the rule does not have is a warning."""
+    if not file_config.options:
+        return []
+    if known_options is None:
+        from sheetlint.relations.registry import rule_options
+
+        known_options = rule_options
+    declared = known_options()
+    where = file_config.path or ""
+    warnings = []
+    for rule, options in file_config.options.items():
+        if rule not in declared:
+            continue  # an unknown rule is warned about already
+        own = declared[rule]
+        for name, value in options.items():
+            key = f"{where}: rules.{rule}.{name}"
+            spec = own.get(name)
+            if spec is None:
+                close = difflib.get_close_matches(name, list(own), n=1)
+                hint = (f"did you mean '{close[0]}'?" if close else
+                        f"its options: {', '.join(sorted(own))}" if own else "it has none")
+                warnings.append(f"{key}: not an option of {rule} ({hint}); it has no effect")
+            elif not _fits(spec, value):
+                shown = (f"[{', '.join(repr(v) for v in value)}]" if isinstance(value, tuple)
+                         else repr(value))
+                expected = ("a number" if spec.kind == "number"
+                            else "two numbers [low, high] with low ≤ high")
+                raise ConfigError(f"{key}: must be {expected} ({spec.meaning}; found {shown})")
+    return warnings
+
+
+def _fits(spec: RuleOption, value: OptionValue) -> bool:
+    def number(v: object) -> bool:
+        return isinstance(v, float)  # integers arrive as floats, booleans stay booleans
+
+    if spec.kind == "number":
+        return number(value)
+    return (isinstance(value, tuple) and len(value) == 2 and number(value[0])
+            and number(value[1]) and value[0] <= value[1])  # type: ignore[operator]
 
 
 def _unknown_rule_warnings(file_config: FileConfig, cli_select: frozenset[str] | None,

@@ -6,7 +6,7 @@ import inspect
 from collections.abc import Iterable
 from typing import Any
 
-from sheetlint.relations.registry import all_relations
+from sheetlint.relations.registry import all_relations, rule_options
 
 STATUSES = ("stable", "preview")
 
@@ -58,6 +58,8 @@ def rules_payload(status: str | None = None) -> list[dict[str, Any]]:
             "severity_policy": first.severity_policy,
             "source": first.source,
             "sources": _distinct(r.source for r in relations),
+            "options": {name: {"kind": o.kind, "default": o.default, "meaning": o.meaning}
+                        for name, o in sorted(rule_options().get(rule, {}).items())},
         })
     return out
 
@@ -74,4 +76,11 @@ def explain(rule: str) -> str | None:
         parts.append(f"Severity: {r.severity_policy}")
         parts.append(f"Source: {r.source}")
         parts.append("")
+    options = rule_options().get(rule)
+    if options:
+        parts.append(f"Options ([tool.sheetlint.rules.{rule}] or [rules.{rule}] in "
+                     "sheetlint.toml):")
+        for name, option in sorted(options.items()):
+            shape = "number" if option.kind == "number" else "[low, high]"
+            parts.append(f"  {name} = {shape}: {option.meaning} (default {option.default})")
     return "\n".join(parts).rstrip()

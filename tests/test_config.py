@@ -223,6 +223,78 @@ def test_unknown_rule_in_config_warns_on_stderr_and_still_checks(
     assert "warning:" in err and "did you mean 'power-torque-speed'" in err
 
 
+@pytest.mark.parametrize(("text", "needle"), [
+    # each is a value every relation would have choked on: float() of a list raised a
+    # TypeError ("internal error"), a text band a ValueError blamed on the sheet's values
+    ("[rules.temperature-rise]\nreference_temperature_spread_k = [1, 2]\n",
+     "rules.temperature-rise.reference_temperature_spread_k: must be a number"),
+    ('[rules.voltage-margin]\nband = "x"\n',
+     "rules.voltage-margin.band: must be two numbers [low, high]"),
+    ("[rules.voltage-margin]\nwarn = [0.3, 0.1]\n", "with low ≤ high"),
+    ("[rules.voltage-margin]\nband = [0.05]\n", "found [0.05]"),
+    ("[rules.pull-out-margin]\nmin_ratio = true\n", "must be a number"),
+])
+def test_a_rule_option_of_the_wrong_kind_is_exit_2_naming_the_file_and_key(
+        tmp_path: Path, monkeypatch: pytest.MonkeyPatch, capsys: pytest.CaptureFixture[str],
+        text: str, needle: str):
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "m.yaml").write_text(WIDE_MARGIN, encoding="utf-8")
+    (tmp_path / "sheetlint.toml").write_text(text, encoding="utf-8")
+    status, out, err = _check(capsys, "m.yaml")
+    assert status == 2 and out == ""
+    assert "sheetlint.toml" in err and needle in err
+    assert "internal error" not in err and "Traceback" not in err
+
+
+def test_an_option_the_rule_does_not_have_warns_with_the_likely_name(
+        tmp_path: Path, monkeypatch: pytest.MonkeyPatch, capsys: pytest.CaptureFixture[str]):
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "m.yaml").write_text(WIDE_MARGIN, encoding="utf-8")
+    (tmp_path / "sheetlint.toml").write_text(
+        "[rules.voltage-margin]\nbnd = [0.05, 0.08]\n[rules.power-torque-speed]\nx = 1\n",
+        encoding="utf-8")
+    status, _out, err = _check(capsys, "m.yaml")
+    assert status == 0  # the +48 % margin is a warning; the options change nothing
+    assert "rules.voltage-margin.bnd: not an option of voltage-margin (did you mean 'band'?)" \
+        in err
+    assert "rules.power-torque-speed.x: not an option of power-torque-speed (it has none)" in err
+
+
+def test_every_option_a_relation_reads_is_declared_and_explained():
+    # sheet.option(rule, "name", ...) and _option_band(sheet, rule, "name", ...) in the
+    # relations' source against the options the reading class's rule declares, so that a
+    # configuration value is checked before any relation reads it
+    import re
+
+    from sheetlint.relations.registry import all_relations, rule_options
+    from sheetlint.rules_doc import explain
+
+    declared = rule_options()
+    rule_of_class = {type(r).__name__: r.rule for r in all_relations()}
+    pattern = re.compile(r'(?:\.option|_option_band)\(\s*(?:sheet,\s*)?([^,]+),\s*f?"([^"]*)"')
+    source_dir = Path(__file__).resolve().parent.parent / "sheetlint" / "relations"
+    reads = 0
+    for path in sorted(source_dir.glob("*.py")):
+        text = path.read_text(encoding="utf-8")
+        for match in pattern.finditer(text):
+            rule_expr, name = match.group(1).strip(), match.group(2)
+            if rule_expr.startswith('"'):
+                rule = rule_expr.strip('"')
+            else:  # self.rule or rule: the rule of the class the call is in
+                owner = re.findall(r"^class (\w+)\(", text[:match.start()], re.MULTILINE)
+                rule = rule_of_class[owner[-1]]
+            names = ([name.replace("{name}", n) for n in ("torque", "current")]
+                     if "{name}" in name else [name])
+            for option in names:
+                assert option in declared.get(rule, {}), (path.name, rule, option)
+            reads += 1
+    assert reads >= 20, "fewer option reads found than exist: the pattern is stale"
+    for rule, options in declared.items():
+        text = explain(rule) or ""
+        for name in options:
+            assert f"  {name} = " in text, (rule, name)
+
+
 # --- progress ---------------------------------------------------------------------------------
 class _Terminal(io.StringIO):
     def isatty(self) -> bool:

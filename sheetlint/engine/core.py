@@ -295,6 +295,21 @@ class Sheet:
                        source if source is not None else relation.source, location)
 
 
+@dataclass(frozen=True, slots=True)
+class RuleOption:
+    """A tunable of a rule, set as ``rules.<rule>.<name>`` in a configuration file.
+
+    ``kind`` is ``number`` (a finite number) or ``band`` (two numbers, low ≤ high); the
+    configuration is checked against it when it is read, so a relation can trust the value.
+    ``default`` is shown in the rule's documentation (the relation passes the same default to
+    ``sheet.option``, or one of its tables when the text says so).
+    """
+
+    kind: Literal["number", "band"]
+    default: str
+    meaning: str
+
+
 class Relation:
     """A physical relation between fields of a sheet.
 
@@ -321,6 +336,8 @@ class Relation:
     #: engine skips the call when all are known. None (the default) means unknown: always called.
     #: A monomial with the standard ``derive`` gets its ``derive_fields`` (or terms) here.
     derive_outputs: ClassVar[tuple[str, ...] | None] = None
+    #: the options the configuration may set for this rule (read with ``sheet.option``)
+    options: ClassVar[Mapping[str, RuleOption]] = MappingProxyType({})
 
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
         return iter(())

@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 from collections.abc import Iterator
 
-from sheetlint.engine.core import GIVEN, Derivation, Finding, Relation, Sheet
+from sheetlint.engine.core import GIVEN, Derivation, Finding, Relation, RuleOption, Sheet
 from sheetlint.engine.monomial import Monomial
 from sheetlint.relations.registry import register
 from sheetlint.standards.tolerances import efficiency_tolerance, power_factor_tolerance
@@ -238,6 +238,12 @@ class ResistanceDrop(Relation):
     severity_policy = "warning outside the band; info with the standstill voltage"
     source = "common practice (no published source): REFERENCES.md §9"
     order = 60
+    options = {
+        "low": RuleOption("number", "0.001", "standstill voltage below this share of the "
+                          "rated voltage is unusually small (common practice)"),
+        "high": RuleOption("number", "0.15", "standstill voltage above this share of the "
+                           "rated voltage is unusually large (common practice)"),
+    }
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         v = sheet.values

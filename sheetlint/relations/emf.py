@@ -6,7 +6,7 @@ import math
 from collections.abc import Iterator
 from typing import ClassVar
 
-from sheetlint.engine.core import Derivation, Finding, Relation, Sheet
+from sheetlint.engine.core import Derivation, Finding, Relation, RuleOption, Sheet
 from sheetlint.engine.monomial import Evaluation, Monomial
 from sheetlint.physics.magnets import remanence_factor
 from sheetlint.relations.registry import register
@@ -47,6 +47,10 @@ class MagnetTemperature(Relation):
     derive_inputs = ("emf.constant", "rated.magnet_temperature", "machine.ambient.min",
                      "emf.constant_hot", "emf.constant_cold")
     derive_outputs = ("emf.constant_hot", "emf.constant_cold")
+    options = {"alpha": RuleOption(
+        "number", "by magnet material: NdFeB −0.0011, SmCo −0.00035, ferrite −0.0020",
+        "reversible temperature coefficient of remanence, per K (also used by emf-constant "
+        "and voltage-margin)")}
 
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
         v = sheet.values
@@ -255,6 +259,9 @@ class TorquePerAmpere(Monomial):
     derive_fields = ()
     allow_estimates = True
     order = 22
+    options = {"allowance": RuleOption(
+        "number", "0.08", "relative allowance of rated torque per ampere against √3·Ke_hot "
+        "(spm)")}
 
     def constant(self, sheet: Sheet) -> float:
         return SQRT3
@@ -310,6 +317,14 @@ class VoltageMargin(Relation):
                       "ipm/pmasynrm: warning below 0 %"
     source = "common practice (no published source): REFERENCES.md §9"
     order = 40
+    options = {
+        "band": RuleOption("band", "[0.06, 0.07]", "usual margin of rated voltage over the "
+                           "hot back-EMF, spm (common practice); outside it an info"),
+        "warn": RuleOption("band", "[0.0, 0.25]", "margins outside this band are warnings "
+                           "(spm)"),
+        "usual": RuleOption("number", "0.065", "margin used to estimate a missing rated "
+                            "voltage or Ke (spm)"),
+    }
 
     def estimate(self, sheet: Sheet) -> Iterator[Derivation]:
         """After all checks: a missing rated voltage or Ke of an spm machine by the usual margin.

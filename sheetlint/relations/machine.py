@@ -15,7 +15,7 @@ from dataclasses import dataclass, field
 from typing import Any, TypeVar
 
 from sheetlint.cautions import FINDING_CAUTION as CAUTION
-from sheetlint.engine.core import Finding, Relation, Sheet
+from sheetlint.engine.core import Finding, Relation, RuleOption, Sheet
 from sheetlint.physics.dq import (
     DIODE_BRIDGE_DC_RATIO,
     RPM,
@@ -476,6 +476,16 @@ class DqOperatingPoint(Relation):
     source = DQ_SOURCE
     status = "stable"
     order = 72
+    options = {
+        "lq_saturation": RuleOption("number", "0.30", "fall of L_q at rated load by "
+                                    "saturation, the far corner of the band"),
+        "torque_allowance": RuleOption("number", "0.05", "torque per ampere lost to iron, "
+                                       "friction and saturation (0.03 when the losses are "
+                                       "stated)"),
+        "tolerance": RuleOption("number", "0.03", "relative widening of the band"),
+        "error_ratio": RuleOption("number", "1.25", "model current over stated current "
+                                  "beyond which a mismatch is an error"),
+    }
 
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
@@ -993,6 +1003,8 @@ class PullOutMargin(Relation):
     source = DQ_SOURCE + "; IEC 60034-1 (pull-out torque of synchronous motors, from memory)"
     status = "preview"
     order = 76
+    options = {"min_ratio": RuleOption(
+        "number", "1.35", "least pull-out torque over rated torque at rated voltage (U/f)")}
 
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:

@@ -9,7 +9,7 @@ from __future__ import annotations
 from collections.abc import Callable, Hashable
 from typing import TypeVar
 
-from sheetlint.engine.core import Relation
+from sheetlint.engine.core import Relation, RuleOption
 
 R = TypeVar("R", bound=type[Relation])
 
@@ -61,6 +61,14 @@ def relations_where(key: Hashable, keep: Callable[[Relation], bool]) -> list[Rel
 def relation_for(rule: str) -> Relation | None:
     _sorted_relations()
     return _RELATIONS.get(rule)
+
+
+def rule_options() -> dict[str, dict[str, RuleOption]]:
+    """Each rule's declared options, merged over the relations that share the rule id."""
+    out: dict[str, dict[str, RuleOption]] = {}
+    for r in all_relations():
+        out.setdefault(r.rule, {}).update(r.options)
+    return out
 
 
 def rule_ids() -> list[str]:

@@ -10,7 +10,7 @@ from __future__ import annotations
 import math
 from collections.abc import Iterator
 
-from sheetlint.engine.core import Derivation, Finding, Relation, Sheet
+from sheetlint.engine.core import Derivation, Finding, Relation, RuleOption, Sheet
 from sheetlint.relations.registry import register
 from sheetlint.standards.efficiency import (
     CONVERTER_FED_SOURCE,
@@ -113,6 +113,9 @@ class TemperatureRise(Relation):
     derive_inputs = ("circuit.resistance", "circuit.resistance_hot", "rated.temperature_rise",
                      "machine.ambient", "rated.magnet_temperature")
     derive_outputs = ("circuit.resistance_hot", "rated.magnet_temperature")
+    options = {"reference_temperature_spread_k": RuleOption(
+        "number", "10", "uncertainty, in K, of the winding temperature when the sheet states "
+        "no rise and the class reference temperature is taken")}
 
     # --- derive ---------------------------------------------------------------------------
     def derive(self, sheet: Sheet) -> Iterator[Derivation]:
@@ -483,6 +486,8 @@ class RotorTorqueDensity(Relation):
     source = SIZING_SOURCE
     status = "preview"
     order = 80
+    options = {"band_knm_per_m3": RuleOption(
+        "band", "by cooling group (see above)", "usual torque per rotor volume, kN·m/m³")}
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         if not sheet.usable(self.rule, *self.fields):
@@ -533,6 +538,9 @@ class SpecificLosses(Relation):
     source = "Common practice; rough bounds from memory, not verified"
     status = "preview"
     order = 80
+    options = {"upper_w_per_kg": RuleOption(
+        "number", "by cooling group (see above)", "highest usual rated losses per kg of "
+        "machine mass, W/kg")}
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         if not sheet.usable(self.rule, "machine.mass"):
@@ -595,6 +603,14 @@ class OverloadRatio(Relation):
     source = "Common practice; bands from memory, not verified"
     status = "preview"
     order = 80
+    options = {
+        "torque_band": RuleOption("band", "from the sizing table (see above)",
+                                  "usual peak-to-rated torque ratio"),
+        "current_band": RuleOption("band", "from the sizing table (see above)",
+                                   "usual peak-to-rated current ratio"),
+        "margin": RuleOption("number", "0.05", "how far the torque ratio of an spm machine "
+                             "may exceed its current ratio"),
+    }
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         values = sheet.values
@@ -672,6 +688,9 @@ class ShortTimeRating(Relation):
     source = "IEC 60034-1:2010 duty types (from memory); common practice"
     status = "preview"
     order = 80
+    options = {"continuous_after_s": RuleOption(
+        "number", "from the sizing table (see above)", "a peak lasting this long, in s, is "
+        "a continuous rating")}
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         attributes = sheet.attributes
