@@ -220,8 +220,8 @@ class TorqueConstant(Monomial):
 
     def extra_findings(self, sheet: Sheet) -> Iterator[Finding]:
         """Kt's magnet temperature unstated: which reading √3·Ke fits best (info)."""
-        if _kt_temperature_factor(sheet) is None and sheet.given("torque_constant") and \
-                sheet.given("emf.constant"):
+        if sheet.given("torque_constant") and sheet.given("emf.constant") and \
+                _kt_temperature_factor(sheet) is None:
             reading = self._best_reading(sheet)
             if reading is not None:
                 yield sheet.finding(self, "info", f"the sheet does not state the magnet "
