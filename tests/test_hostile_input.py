@@ -339,3 +339,21 @@ def test_cli_subprocess_bad_input_exit_2_without_traceback(tmp_path, content, wo
     assert done.returncode == 2
     assert "Traceback" not in done.stderr
     assert words in done.stderr and "input.json" in done.stderr
+
+
+def test_a_thermal_class_beyond_any_float_is_an_unknown_class_not_an_arithmetic_failure(
+        tmp_path, capsys):
+    # 10**400 cannot become a float (OverflowError): IEC 60085 knows no such class, which
+    # value-range says; temperature-rise has no class to check against and stays quiet
+    from sheetlint.standards.thermal import class_number
+
+    assert class_number(10**400) is None
+    content = ("id: HX-1\nmachine:\n  thermal_class: " + "1" + "0" * 400 + "\n"
+               "rated:\n  temperature_rise: 80 K\n")
+    path = tmp_path / "huge-class.yaml"
+    path.write_text(content, encoding="utf-8")
+    status, out, err = _run(capsys, str(path))
+    text = out + err
+    assert status == 0
+    assert "not an IEC 60085 thermal class" in text
+    assert "could not be evaluated" not in text

@@ -55,7 +55,7 @@ def class_number(value: object) -> int | None:
         return None
     try:
         number = float(value)
-    except ValueError:
+    except (ValueError, OverflowError):  # not a number, or an integer beyond any float
         return None
     if not math.isfinite(number) or number != int(number):
         return None
