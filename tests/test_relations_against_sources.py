@@ -92,6 +92,11 @@ def test_kt_without_magnet_temperature_says_which_reading_of_ke_it_fits():
         infos = [f for f in result.findings if f.rule == "emf-constant" and
                  "does not state the magnet temperature of Kt" in f.message]
         assert len(infos) == 1 and infos[0].message.endswith(reading)
+    # a Kt that fits neither reading (Ke per phase: √3 off) fails the relation; no "fits
+    # best" info beside that failure
+    result = run(dict(base, torque_constant="2.865 N*m/A"))
+    assert [f for f in serious(result) if f.rule == "emf-constant"]
+    assert not [f for f in result.findings if "fits best" in f.message]
 
 
 def test_electrical_power_allows_the_iec_60034_1_tolerance_on_efficiency_and_power_factor():

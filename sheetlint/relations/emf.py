@@ -219,9 +219,13 @@ class TorqueConstant(Monomial):
                              sources=((kt, 1.0),))
 
     def extra_findings(self, sheet: Sheet) -> Iterator[Finding]:
-        """Kt's magnet temperature unstated: which reading √3·Ke fits best (info)."""
+        """Kt's magnet temperature unstated and Kt = √3·Ke holding: which reading it fits
+        (info). When the relation fails, its failure (and cause) is the finding, not this."""
         if sheet.given("torque_constant") and sheet.given("emf.constant") and \
                 _kt_temperature_factor(sheet) is None:
+            evaluation = self.evaluate(sheet)
+            if evaluation is None or abs(evaluation.residual) > evaluation.tolerance:
+                return
             reading = self._best_reading(sheet)
             if reading is not None:
                 yield sheet.finding(self, "info", f"the sheet does not state the magnet "
