@@ -143,13 +143,12 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
     derive(sheet, relations)
     evaluations: list[Evaluation] = []
     narrowed = settings.narrowed
-    if narrowed:
-        # a rule left out by select/ignore is not checked, except a monomial: every failing
-        # monomial takes part in the cause diagnosis of the others
-        relations = relations_where(
-            ("checked", settings.select, settings.ignore),
-            lambda r: settings.enabled(r.rule) or isinstance(r, Monomial))
-    for relation in relations:
+    # the relations that check anything; a rule left out by select/ignore is not checked,
+    # except a monomial: every failing monomial takes part in the cause diagnosis of the others
+    checked = relations_where(
+        ("checked", settings.select, settings.ignore),
+        lambda r: _checks(r) and (settings.enabled(r.rule) or isinstance(r, Monomial)))
+    for relation in checked:
         check_relation(relation, sheet, findings, evaluations)
     findings.extend(_explain_failures(sheet, evaluations))
     findings.extend(sheet.findings)
@@ -160,6 +159,11 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
     findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))
     derived = {name: k for name, k in sheet.values.items() if k.origin != GIVEN}
     return RecordResult(record.id, None, findings, derived, sheet, index)
+
+
+def _checks(relation: Relation) -> bool:
+    """True for a relation that checks anything (a monomial, or its own ``check``)."""
+    return isinstance(relation, Monomial) or type(relation).check is not Relation.check
 
 
 #: arithmetic that values far outside any machine's range can still provoke
