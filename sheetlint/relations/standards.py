@@ -29,6 +29,7 @@ from sheetlint.standards.thermal import (
     cooling_group,
     corrected_rise_limit,
     reference_temperature_c,
+    resistance_with_constant,
     sizing_bands,
     temperature_constant,
     thermal_class_limit,
@@ -51,9 +52,16 @@ def _governing_class(sheet: Sheet) -> tuple[int | None, str]:
     """The class whose rise limit applies: the temperature-rise class, else the thermal class."""
     attributes = sheet.attributes
     rise_class = class_number(attributes.get("machine.temperature_rise_class"))
+    thermal_class = (None if rise_class is not None
+                     else class_number(attributes.get("machine.thermal_class")))
+    return _governing(rise_class, thermal_class)
+
+
+def _governing(rise_class: int | None, thermal_class: int | None) -> tuple[int | None, str]:
+    """:func:`_governing_class` from the two class numbers already read."""
     if rise_class is not None:
         return rise_class, RISE_CLASS
-    return class_number(attributes.get("machine.thermal_class")), THERMAL_CLASS
+    return thermal_class, THERMAL_CLASS
 
 
 def _celsius(sheet: Sheet, name: str) -> float | None:
@@ -170,9 +178,7 @@ class TemperatureRise(Relation):
             where = (f"IEC 60034-2-1 reference temperature {reference:g} degC of the {label} "
                      f"{governing} (from memory; the sheet states no temperature rise)")
             estimate = resistance.is_estimate
-        if k + t1 <= 0.0 or k + t2 <= 0.0:
-            return None  # a temperature at or below -k: no resistance (see resistance_at)
-        value = resistance.value * (k + t2) / (k + t1)  # resistance_at, with k known here
+        value = resistance_with_constant(resistance.value, t1, t2, k)
         if not math.isfinite(value):
             return None
         uncertainty = resistance.uncertainty + spread / (k + t2)
@@ -197,8 +203,7 @@ class TemperatureRise(Relation):
                 cause="the thermal class and the temperature-rise class may be swapped")
         if not sheet.usable(self.rule, "rated.temperature_rise"):
             return
-        governing, label = ((rise_class, RISE_CLASS) if rise_class is not None
-                            else (thermal_class, THERMAL_CLASS))
+        governing, label = _governing(rise_class, thermal_class)
         if governing is None:
             return
         base = thermal_class_limit(governing)

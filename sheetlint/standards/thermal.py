@@ -163,7 +163,13 @@ def resistance_at(r1: float, t1_c: float, t2_c: float, conductor: str = "copper"
     .. [1] IEC 60034-1 and IEC 60034-2-1 (constants 235 and 225, from memory).
     """
     k = temperature_constant(conductor)
-    if k is None or k + t1_c <= 0.0 or k + t2_c <= 0.0:
+    return math.nan if k is None else resistance_with_constant(r1, t1_c, t2_c, k)
+
+
+def resistance_with_constant(r1: float, t1_c: float, t2_c: float, k: float) -> float:
+    """:func:`resistance_at` with the conductor's constant ``k`` [degC] already looked up:
+    R₂ = R₁·(k + θ₂)/(k + θ₁); NaN for a temperature at or below -k."""
+    if k + t1_c <= 0.0 or k + t2_c <= 0.0:
         return math.nan
     return r1 * (k + t2_c) / (k + t1_c)
 
