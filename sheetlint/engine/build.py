@@ -94,6 +94,8 @@ _MACHINE_FIELDS = tuple((name, f"machine.{name}")
                                      "stack_length"))
 _LIMIT_FIELDS = tuple((name, f"limits.{name}")
                       for name in ("max_speed", "peak_torque", "peak_current"))
+_COUNT_FIELDS = tuple((name, f"machine.{name}") for name in ("poles", "pole_pairs", "phases"))
+_MAGNET_NAMES = {"ndfeb": "NdFeB", "smco": "SmCo", "ferrite": "ferrite"}
 
 
 def build_sheet(record: MachineRecord, settings: Settings | None = None,
@@ -109,78 +111,89 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
             if m.unknown_qualifiers:
                 odd_qualifiers.append((path, m))
 
-    machine, rated, emf = record.machine, record.rated, record.emf
+    # pydantic models define __getattr__, which makes every attribute read several times
+    # dearer than a dict look-up: the fields are read from each model's __dict__ instead
+    fields_of = vars(record)
+    machine, rated, emf = fields_of["machine"], fields_of["rated"], fields_of["emf"]
+    machine_fields, rated_fields, emf_fields = vars(machine), vars(rated), vars(emf)
     for name, path in _RATED_FIELDS:
-        put(path, getattr(rated, name))
-    for i, point in enumerate(record.points):
+        put(path, rated_fields[name])
+    for i, point in enumerate(fields_of["points"]):
+        point_fields = vars(point)
         for name in POINT_FIELDS:
-            put(f"points[{i}].{name}", getattr(point, name))
-    put("rated.temperature_rise", rated.temperature_rise)
-    put("rated.magnet_temperature", rated.magnet_temperature)
-    if rated.losses is not None:
-        put("rated.losses", rated.losses)
-        for part, m in rated.losses.extras.items():
+            put(f"points[{i}].{name}", point_fields[name])
+    put("rated.temperature_rise", rated_fields["temperature_rise"])
+    put("rated.magnet_temperature", rated_fields["magnet_temperature"])
+    losses = rated_fields["losses"]
+    if losses is not None:
+        put("rated.losses", losses)
+        for part, m in losses.extras.items():
             put(f"rated.losses.{part}", m)
-    for name in ("poles", "pole_pairs", "phases"):
-        raw = getattr(machine, name)
+    for name, path in _COUNT_FIELDS:
+        raw = machine_fields[name]
         if raw is not None:
-            path = f"machine.{name}"
             values[path] = Known(float(raw), 0.0, text=str(raw),
                                  sensitivity=own_sensitivity(path))
-    if machine.ambient is not None:
-        put("machine.ambient", machine.ambient)
-        if "min" in machine.ambient.extras:
-            put("machine.ambient.min", machine.ambient.extras["min"])
+    ambient = machine_fields["ambient"]
+    if ambient is not None:
+        put("machine.ambient", ambient)
+        if "min" in ambient.extras:
+            put("machine.ambient.min", ambient.extras["min"])
     for name, path in _MACHINE_FIELDS:
-        put(path, getattr(machine, name))
-    magnet_temperature = emf.magnet_temperature.value if emf.magnet_temperature else ROOM
-    put("emf.magnet_temperature", emf.magnet_temperature)
-    put("emf.constant", emf.constant, magnet_temperature)
-    put("emf.voltage", emf.voltage, magnet_temperature)
-    put("emf.speed", emf.speed)
-    if emf.flux_linkage is not None:
-        put("emf.flux_linkage", emf.flux_linkage,
-            emf.flux_linkage.temperature or magnet_temperature)
-    if record.torque_constant is not None:
-        put("torque_constant", record.torque_constant,
-            record.torque_constant.magnet_temperature)
-    circuit = record.circuit
-    if circuit.resistance is not None:
-        put("circuit.resistance", circuit.resistance, circuit.resistance.temperature or ROOM)
-    put("circuit.ld", circuit.ld)
-    put("circuit.lq", circuit.lq)
-    limits = record.limits
+        put(path, machine_fields[name])
+    emf_magnet = emf_fields["magnet_temperature"]
+    magnet_temperature = emf_magnet.value if emf_magnet else ROOM
+    put("emf.magnet_temperature", emf_magnet)
+    put("emf.constant", emf_fields["constant"], magnet_temperature)
+    put("emf.voltage", emf_fields["voltage"], magnet_temperature)
+    put("emf.speed", emf_fields["speed"])
+    flux = emf_fields["flux_linkage"]
+    if flux is not None:
+        put("emf.flux_linkage", flux, flux.temperature or magnet_temperature)
+    torque_constant = fields_of["torque_constant"]
+    if torque_constant is not None:
+        put("torque_constant", torque_constant, torque_constant.magnet_temperature)
+    circuit_fields = vars(fields_of["circuit"])
+    resistance = circuit_fields["resistance"]
+    if resistance is not None:
+        put("circuit.resistance", resistance, resistance.temperature or ROOM)
+    put("circuit.ld", circuit_fields["ld"])
+    put("circuit.lq", circuit_fields["lq"])
+    limits_fields = vars(fields_of["limits"])
     for name, path in _LIMIT_FIELDS:
-        put(path, getattr(limits, name))
-    put("supply.mains_voltage", record.supply.mains_voltage)
-    put("supply.dc_link_voltage", record.supply.dc_link_voltage)
+        put(path, limits_fields[name])
+    supply_fields = vars(fields_of["supply"])
+    put("supply.mains_voltage", supply_fields["mains_voltage"])
+    put("supply.dc_link_voltage", supply_fields["dc_link_voltage"])
+    peak_torque, peak_current = limits_fields["peak_torque"], limits_fields["peak_current"]
+    claim = fields_of["efficiency_class"]
+    cooling, duty = machine_fields["cooling"], machine_fields["duty"]
+    conductor, magnet = machine_fields["conductor"], machine_fields["magnet"]
 
     attributes: dict[str, Any] = {
-        "id": record.id,
-        "maker": record.maker,
-        "machine.topology": machine.topology,
-        "machine.connection": machine.connection,
-        "machine.thermal_class": thermal_class_number(machine.thermal_class),
-        "machine.temperature_rise_class": thermal_class_number(machine.temperature_rise_class),
-        "machine.cooling": machine.cooling.strip().upper() if machine.cooling else None,
-        "machine.duty": machine.duty.strip().upper() if machine.duty else None,
-        "machine.magnet": {"ndfeb": "NdFeB", "smco": "SmCo", "ferrite": "ferrite"}[
-            machine.magnet or "ndfeb"],
-        "machine.conductor": "aluminium" if machine.conductor in ("aluminium", "aluminum")
+        "id": fields_of["id"],
+        "maker": fields_of["maker"],
+        "machine.topology": machine_fields["topology"],
+        "machine.connection": machine_fields["connection"],
+        "machine.thermal_class": thermal_class_number(machine_fields["thermal_class"]),
+        "machine.temperature_rise_class": thermal_class_number(
+            machine_fields["temperature_rise_class"]),
+        "machine.cooling": cooling.strip().upper() if cooling else None,
+        "machine.duty": duty.strip().upper() if duty else None,
+        "machine.magnet": _MAGNET_NAMES[magnet or "ndfeb"],
+        "machine.conductor": "aluminium" if conductor in ("aluminium", "aluminum")
         else "copper",
-        "efficiency_class": record.efficiency_class.value.strip().upper()
-        if record.efficiency_class else None,
-        "efficiency_class.standard": record.efficiency_class.standard
-        if record.efficiency_class else None,
-        "points.count": len(record.points),
-        "limits.peak_torque.duration": limits.peak_torque.duration
-        if limits.peak_torque is not None else None,
-        "limits.peak_current.duration": limits.peak_current.duration
-        if limits.peak_current is not None else None,
-        "suppress": [(s.rule, s.reason, s.field) for s in record.suppress],
+        "efficiency_class": claim.value.strip().upper() if claim else None,
+        "efficiency_class.standard": claim.standard if claim else None,
+        "points.count": len(fields_of["points"]),
+        "limits.peak_torque.duration": peak_torque.duration
+        if peak_torque is not None else None,
+        "limits.peak_current.duration": peak_current.duration
+        if peak_current is not None else None,
+        "suppress": [(s.rule, s.reason, s.field) for s in fields_of["suppress"]],
     }
     sheet = Sheet(record.id, values, attributes, settings, locate)
-    notes.extend(_unknown_field_notes(record, sheet, odd_qualifiers))
+    notes.extend(_unknown_field_notes(record, fields_of, sheet, odd_qualifiers))
     return sheet, notes
 
 
@@ -189,13 +202,13 @@ def _field_names(model_type: type) -> tuple[str, ...]:
     return tuple(model_type.model_fields)
 
 
-def _unknown_field_notes(record: MachineRecord, sheet: Sheet,
+def _unknown_field_notes(record: MachineRecord, fields_of: dict[str, Any], sheet: Sheet,
                          odd_qualifiers: list[tuple[str, Measured]]) -> list[Finding]:
     rule = relation_for("unknown-field")
     out: list[Finding] = []
     sections: list[tuple[str, Any]] = [("", record)]
-    sections += [(name, getattr(record, name)) for name in SECTIONS]
-    sections += [(f"points[{i}]", p) for i, p in enumerate(record.points)]
+    sections += [(name, fields_of[name]) for name in SECTIONS]
+    sections += [(f"points[{i}]", p) for i, p in enumerate(fields_of["points"])]
     for prefix, model in sections:
         extra = model.model_extra
         if not extra:
