@@ -19,6 +19,7 @@ from hypothesis import strategies as st
 from sheetlint.engine import run as engine_run
 from sheetlint.engine.build import build_sheet
 from sheetlint.engine.core import Settings
+from sheetlint.engine.monomial import Monomial
 from sheetlint.model import MachineRecord
 from sheetlint.relations.registry import all_relations
 from sheetlint.synth import MachineSpec, record
@@ -136,3 +137,23 @@ def test_a_rule_selection_leaves_the_selected_rules_findings_unchanged(topology,
             kept = [f for f in full.findings if narrowed.enabled(f.rule)]
             assert _finding_keys(part) == _finding_keys(
                 dataclasses.replace(full, findings=kept)), (rule, narrowed)
+
+
+@pytest.mark.parametrize("topology", ["spm", "ipm"])
+@pytest.mark.parametrize("slip", SLIPS)
+def test_a_monomials_own_check_reports_what_the_engine_reports(topology, slip):
+    """``Monomial.check``, the library call, fails on the same fields by the same deviations
+    as the engine's run (which adds the cause diagnosis to those findings afterwards)."""
+    data = _slipped(topology, slip)
+    full = engine_run.run_engine(MachineRecord.model_validate(copy.deepcopy(data)))
+    monomials = [r for r in all_relations() if isinstance(r, Monomial)]
+    monomial_rules = {r.rule for r in monomials}
+    sheet = _sheet(data)
+    engine_run.derive(sheet, all_relations())
+    own = sorted((f.rule, f.fields[0], round(f.deviation or 0.0, 9))
+                 for r in monomials for f in r.check(sheet))
+    engine = sorted((f.rule, f.fields[0], round(f.deviation or 0.0, 9))
+                    for f in full.findings if f.rule in monomial_rules)
+    assert own == engine
+    if slip is not None and slip[:2] == ("rated", "torque"):
+        assert own  # the slip breaks P = T·ω at least

@@ -225,16 +225,28 @@ class Monomial(Relation):
     def describe(self, sheet: Sheet, evaluation: Evaluation) -> str:
         return self.title
 
+    def evaluations(self, sheet: Sheet) -> list[Evaluation]:
+        """The evaluation of every variant that can be checked; a failing one carries its
+        finding (``Evaluation.finding``), which the cause diagnosis may still amend."""
+        out = []
+        for variant in self.variants(sheet):
+            evaluation = variant.evaluate(sheet)
+            if evaluation is None:
+                continue
+            if abs(evaluation.residual) > evaluation.tolerance:
+                evaluation.finding = variant.failure(sheet, evaluation)
+            out.append(evaluation)
+        return out
+
     def check(self, sheet: Sheet) -> Iterator[Finding]:
         """The product-of-powers failures of every variant, then :meth:`extra_findings`.
 
-        The engine does not call this: it evaluates the variants itself (the cause diagnosis
-        needs every evaluation) and then asks for :meth:`extra_findings`.
+        The engine does not call this: it keeps :meth:`evaluations` for the cause diagnosis,
+        which needs every one, and asks for :meth:`extra_findings` itself.
         """
-        for variant in self.variants(sheet):
-            evaluation = variant.evaluate(sheet)
-            if evaluation is not None and abs(evaluation.residual) > evaluation.tolerance:
-                yield variant.failure(sheet, evaluation)
+        for evaluation in self.evaluations(sheet):
+            if evaluation.finding is not None:
+                yield evaluation.finding
         yield from self.extra_findings(sheet)
 
     def extra_findings(self, sheet: Sheet) -> Iterator[Finding]:

@@ -176,13 +176,7 @@ def check_relation(relation: Any, sheet: Sheet, findings: list[Finding],
     evaluations go to ``evaluations`` (their findings are added after the cause diagnosis)."""
     try:
         if isinstance(relation, Monomial):
-            for variant in relation.variants(sheet):
-                evaluation = variant.evaluate(sheet)
-                if evaluation is None:
-                    continue
-                if abs(evaluation.residual) > evaluation.tolerance:
-                    evaluation.finding = variant.failure(sheet, evaluation)
-                evaluations.append(evaluation)
+            evaluations.extend(relation.evaluations(sheet))
             if type(relation).extra_findings is not Monomial.extra_findings:
                 findings.extend(relation.extra_findings(sheet))
             return
