@@ -16,52 +16,73 @@ def render(results: list[FileResult], show_info: bool = True, show_derived: bool
     lines: list[str] = []
     safety = False
     for f in results:
-        name = relative(f.path)
-        if f.error:
-            lines.append(f"{name}: cannot read: {f.error}")
+        file_part, file_safety = file_lines(f, show_info, show_derived)
+        lines.extend(file_part)
+        safety = safety or file_safety
+    lines.extend(tail_lines(summary(results), safety))
+    return "\n".join(lines)
+
+
+def file_lines(f: FileResult, show_info: bool = True,
+               show_derived: bool = False) -> tuple[list[str], bool]:
+    """The lines of one file's results, and whether a safety warning was among them.
+
+    The streaming interface: a batch writes each file's lines as the file finishes, then
+    :func:`tail_lines` with the counts of the whole run.
+    """
+    lines: list[str] = []
+    safety = False
+    name = relative(f.path)
+    if f.error:
+        lines.append(f"{name}: cannot read: {f.error}")
+        return lines, safety
+    for r in f.records:
+        if r.error:
+            lines.append(f"{name}: cannot read record: {r.error}")
             continue
-        for r in f.records:
-            if r.error:
-                lines.append(f"{name}: cannot read record: {r.error}")
-                continue
-            shown = [x for x in r.findings if show_info or x.severity != "info"]
-            head = f"{name} :: {r.id}"
-            if not shown and not show_derived:
-                lines.append(f"{head}: ok")
-                continue
-            lines.append(head)
-            for x in shown:
-                where = ""
-                if x.location:
-                    if "line" in x.location:
-                        where = f"{name}:{x.location['line']}: "
-                    elif "page" in x.location:
-                        where = f"{name} p.{x.location['page']}: "
-                sev = MARK[x.severity] if x.suppressed is None else "suppr. "
-                text = f"  {sev} {x.rule:<20} {where}{x.message}"
-                if x.expected and x.actual and x.severity != "info":
-                    exp = ", ".join(f"{k} {v}" for k, v in x.expected.items())
-                    act = ", ".join(f"{k} {v}" for k, v in x.actual.items())
-                    text += f" [expected {exp}; sheet {act}]"
-                lines.append(text)
-                if x.cause:
-                    lines.append(f"           cause: {x.cause}")
-                if x.suppressed is not None:
-                    lines.append(f"           suppressed: {x.suppressed}")
-                if x.rule in SAFETY_RULES and x.severity != "info":
-                    safety = True
-            if show_derived and r.derived:
-                lines.append("  derived:")
-                for path, d in derived_payload(r.derived).items():
-                    tag = " (estimate)" if d["estimate"] else ""
-                    lines.append(f"    {path} = {d['value']:g} {d['unit']}{tag}  "
-                                 f"[{d['rule']} from {', '.join(d['from'])}]")
-    s = summary(results)
+        shown = [x for x in r.findings if show_info or x.severity != "info"]
+        head = f"{name} :: {r.id}"
+        if not shown and not show_derived:
+            lines.append(f"{head}: ok")
+            continue
+        lines.append(head)
+        for x in shown:
+            where = ""
+            if x.location:
+                if "line" in x.location:
+                    where = f"{name}:{x.location['line']}: "
+                elif "page" in x.location:
+                    where = f"{name} p.{x.location['page']}: "
+            sev = MARK[x.severity] if x.suppressed is None else "suppr. "
+            text = f"  {sev} {x.rule:<20} {where}{x.message}"
+            if x.expected and x.actual and x.severity != "info":
+                exp = ", ".join(f"{k} {v}" for k, v in x.expected.items())
+                act = ", ".join(f"{k} {v}" for k, v in x.actual.items())
+                text += f" [expected {exp}; sheet {act}]"
+            lines.append(text)
+            if x.cause:
+                lines.append(f"           cause: {x.cause}")
+            if x.suppressed is not None:
+                lines.append(f"           suppressed: {x.suppressed}")
+            if x.rule in SAFETY_RULES and x.severity != "info":
+                safety = True
+        if show_derived and r.derived:
+            lines.append("  derived:")
+            for path, d in derived_payload(r.derived).items():
+                tag = " (estimate)" if d["estimate"] else ""
+                lines.append(f"    {path} = {d['value']:g} {d['unit']}{tag}  "
+                             f"[{d['rule']} from {', '.join(d['from'])}]")
+    return lines, safety
+
+
+def tail_lines(counts: dict[str, int], safety: bool) -> list[str]:
+    """The summary line (and the cautions line after a safety warning) of a whole run."""
+    s = counts
     tail = (f"{s['files']} file(s), {s['records']} record(s): {s['error']} error(s), "
             f"{s['warning']} warning(s), {s['info']} info")
     if s.get("suppressed"):
         tail += f", {s['suppressed']} suppressed"
-    lines.append(tail)
+    lines = [tail]
     if safety:
         lines.append(CAUTION)
-    return "\n".join(lines)
+    return lines
