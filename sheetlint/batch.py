@@ -151,6 +151,10 @@ def _check_file(path: str, settings: Settings | None, max_bytes: int | None) -> 
             record = RecordResult(_raw_label(raw), _internal(exc), index=raw.index)
         if record.error:
             record.error = f"{path}: {_record_label(raw, record)}: {record.error}"
+            if raw.duplicates:  # the record was not checked: name its repeated keys here
+                record.error += "; " + "; ".join(
+                    f"{d.path} is written twice, at lines {d.first_line} and {d.second_line}"
+                    for d in raw.duplicates)
         result.records.append(record)
     return result
 
