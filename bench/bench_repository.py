@@ -8,7 +8,8 @@ runs, each in a fresh process and one after the other:
   every file with the project's own model (what any schema-based checker pays);
 - ``sheetlint check`` with default options, once per requested output format.
 
-For each run it prints the wall time, the ratio to the floor and two memory figures: the
+For each run it prints the wall time and the CPU time (user + system of every process of the
+run) with their ratios to the floor's, and two memory figures: the
 largest resident set of any one process of the run (``ru_maxrss`` of the waited-for process
 tree, what ``/usr/bin/time -v`` reports), and the peak of the sum of proportional set sizes
 (PSS, shared pages split between the processes that share them) over the run's process tree,
@@ -120,8 +121,9 @@ def _pss_kib(pid: int) -> int:
     return 0
 
 
-def run_measured(command: list[str]) -> tuple[float, int, float | None, str]:
-    """Wall seconds, exit status, largest RSS (MB), peak summed PSS (MB or None), stderr."""
+def run_measured(command: list[str]) -> tuple[float, float, int, float, float | None, str]:
+    """Wall seconds, CPU seconds (user + system, all processes), exit status, largest RSS
+    (MB), peak summed PSS (MB or None), stderr."""
     start = time.perf_counter()
     process = subprocess.Popen(command, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
     peak = {"pss": 0}
@@ -148,7 +150,7 @@ def run_measured(command: list[str]) -> tuple[float, int, float | None, str]:
         sampler.join()
     process.returncode = os.waitstatus_to_exitcode(status)
     stderr = b"".join(stderr_chunks).decode("utf-8", "replace")
-    return (elapsed, process.returncode, usage.ru_maxrss / 1024,
+    return (elapsed, usage.ru_utime + usage.ru_stime, process.returncode, usage.ru_maxrss / 1024,
             peak["pss"] / 1024 if sampling else None, stderr)
 
 
@@ -176,23 +178,23 @@ def main() -> None:
         python = sys.executable
         out = str(Path(tmp, "report.out"))
         jobs = ["--jobs", str(options.jobs)] if options.jobs is not None else []
-        print(f"{'run':<28} {'wall s':>7} {'x floor':>8} {'max RSS MB':>11} "
-              f"{'peak PSS MB':>12} exit")
+        print(f"{'run':<28} {'wall s':>7} {'x floor':>8} {'CPU s':>7} {'x floor':>8} "
+              f"{'max RSS MB':>11} {'peak PSS MB':>12} exit")
         for _ in range(options.repeat):
-            floor, status, rss, pss, err = run_measured([python, "-c", FLOOR, str(folder)])
-            _row("floor (read+parse+validate)", floor, floor, rss, pss, status, err)
+            floor = run_measured([python, "-c", FLOOR, str(folder)])
+            _row("floor (read+parse+validate)", floor, floor)
             for fmt in options.formats.split(","):
                 command = [python, "-m", "sheetlint", "check", "--no-progress", "--format",
                            fmt, "-o", out, *jobs, str(folder)]
-                elapsed, status, rss, pss, err = run_measured(command)
-                _row(f"check --format {fmt}", elapsed, floor, rss, pss, status, err)
+                _row(f"check --format {fmt}", run_measured(command), floor)
 
 
-def _row(label: str, elapsed: float, floor: float, rss: float, pss: float | None,
-         status: int, stderr: str) -> None:
+def _row(label: str, run: tuple[float, float, int, float, float | None, str],
+         floor: tuple[float, float, int, float, float | None, str]) -> None:
+    elapsed, cpu, status, rss, pss, stderr = run
     shown = f"{pss:12.0f}" if pss is not None else f"{'n/a':>12}"
-    print(f"{label:<28} {elapsed:7.2f} {elapsed / floor:8.2f} {rss:11.0f} {shown} {status}",
-          flush=True)
+    print(f"{label:<28} {elapsed:7.2f} {elapsed / floor[0]:8.2f} {cpu:7.2f} "
+          f"{cpu / floor[1]:8.2f} {rss:11.0f} {shown} {status}", flush=True)
     if "Traceback" in stderr:
         print(stderr[-2000:], file=sys.stderr)
 

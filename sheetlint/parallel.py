@@ -20,10 +20,10 @@ import os
 import pickle
 import signal
 import time
-from collections.abc import Iterator, Sequence
+from collections.abc import Callable, Iterator, Sequence
 from typing import TYPE_CHECKING, Any
 
-from sheetlint.batch import FileResult, check_file
+from sheetlint.batch import FileResult, check_file, render_safely
 from sheetlint.engine.core import Settings
 
 if TYPE_CHECKING:  # multiprocessing is imported only when workers start (start-up time)
@@ -38,8 +38,11 @@ MAX_CHUNK = 32
 GRACE_SECONDS = 10.0
 #: how often the parent looks for dead workers while it waits, seconds
 POLL_SECONDS = 0.25
+#: the cyclic collector's thresholds in a worker (CPython's default is 700, 10, 10)
+WORKER_GC_THRESHOLDS = (20_000, 20, 20)
 
-_WORKER_CONFIG: tuple[Settings | None, int | None, float | None] = (None, None, None)
+#: what a worker was started with: settings, size limit, time limit, render
+_WORKER_CONFIG: tuple[Settings | None, int | None, float | None, Any] = (None, None, None, None)
 
 
 def cpu_count() -> int:
@@ -73,18 +76,24 @@ def chunk_size(file_count: int, workers: int) -> int:
 
 
 def check_in_workers(files: Sequence[str], settings: Settings | None, *, workers: int,
-                     time_limit: float | None, max_bytes: int | None) -> Iterator[FileResult]:
-    """Check ``files`` in ``workers`` processes; yield the results in the order of ``files``."""
+                     time_limit: float | None, max_bytes: int | None,
+                     render: Callable[[FileResult], Any] | None = None) -> Iterator[Any]:
+    """Check ``files`` in ``workers`` processes; yield the results in the order of ``files``.
+
+    With ``render``, each worker applies it to its results and sends back what it returns (a
+    report's part: text and counts), not the results themselves.
+    """
     size = chunk_size(len(files), workers)
     chunks = [list(files[i:i + size]) for i in range(0, len(files), size)]
-    config = (settings, max_bytes, time_limit)
+    config = (settings, max_bytes, time_limit, render)
     while chunks:
         try:
             pool = _start_pool(workers, config)
         except (OSError, ImportError, ValueError):  # no process support here: check serially
             for chunk in chunks:
                 for path in chunk:
-                    yield check_file(path, settings, max_bytes=max_bytes, time_limit=time_limit)
+                    yield render_safely(render, check_file(
+                        path, settings, max_bytes=max_bytes, time_limit=time_limit))
             return
         stopped_at: int | None = None
         try:
@@ -103,7 +112,7 @@ def check_in_workers(files: Sequence[str], settings: Settings | None, *, workers
 
 
 def _ordered_results(pool: Pool, chunks: list[list[str]],
-                     time_limit: float | None) -> Iterator[list[FileResult] | None]:
+                     time_limit: float | None) -> Iterator[list[Any] | None]:
     """Each chunk's results in order; None (and stop) when a chunk stalls or a worker dies."""
     iterator = pool.imap(_check_chunk, chunks, chunksize=1)
     pids = _worker_pids(pool)
@@ -133,13 +142,13 @@ def _wait(iterator: Any, pool: Pool, pids: frozenset[int] | None,
             return None  # a worker died; its task is lost and will never come back
 
 
-def _isolate(chunk: list[str], config: tuple[Settings | None, int | None, float | None]
-             ) -> Iterator[FileResult]:
+def _isolate(chunk: list[str], config: tuple[Settings | None, int | None, float | None, Any]
+             ) -> Iterator[Any]:
     """Check the files of a chunk that stalled, one at a time, each in a fresh worker if need be.
 
     A file that again gets no answer is the one at fault: it is reported, the others are checked.
     """
-    settings, max_bytes, time_limit = config
+    settings, max_bytes, time_limit, render = config
     pool: Pool | None = None
     try:
         for path in chunk:
@@ -155,26 +164,36 @@ def _isolate(chunk: list[str], config: tuple[Settings | None, int | None, float 
             pool.join()
             pool = None
             if time_limit is not None:
-                yield FileResult(path, f"{path}: time limit of {time_limit:g} s exceeded "
-                                       "(the worker checking it stopped responding or died)")
+                failed = FileResult(path, f"{path}: time limit of {time_limit:g} s exceeded "
+                                          "(the worker checking it stopped responding or died)")
             else:
-                yield FileResult(path, f"{path}: the worker process checking this file died "
-                                       "(out of memory?)")
+                failed = FileResult(path, f"{path}: the worker process checking this file "
+                                          "died (out of memory?)")
+            yield render_safely(render, failed)
     except (OSError, ImportError, ValueError):
         for path in chunk:  # pragma: no cover - only where processes cannot be started
-            yield check_file(path, settings, max_bytes=max_bytes, time_limit=time_limit)
+            yield render_safely(render, check_file(path, settings, max_bytes=max_bytes,
+                                                   time_limit=time_limit))
     finally:
         if pool is not None:
             pool.terminate()
             pool.join()
 
 
-def _start_pool(workers: int, config: tuple[Settings | None, int | None, float | None]) -> Pool:
+def _start_pool(workers: int,
+                config: tuple[Settings | None, int | None, float | None, Any]) -> Pool:
+    import gc
     import multiprocessing
 
-    methods = multiprocessing.get_all_start_methods()
-    context = multiprocessing.get_context("fork" if "fork" in methods else None)
-    return context.Pool(workers, initializer=_init_worker, initargs=config)
+    # objects that exist now are never collected in the workers: the collector then does not
+    # touch (and so copy) the pages a forked worker shares with this process
+    gc.freeze()
+    try:
+        methods = multiprocessing.get_all_start_methods()
+        context = multiprocessing.get_context("fork" if "fork" in methods else None)
+        return context.Pool(workers, initializer=_init_worker, initargs=config)
+    finally:
+        gc.unfreeze()  # the workers are forked: this process collects as before
 
 
 def _worker_pids(pool: Pool) -> frozenset[int] | None:
@@ -186,25 +205,31 @@ def _worker_pids(pool: Pool) -> frozenset[int] | None:
 
 
 def _init_worker(settings: Settings | None, max_bytes: int | None,
-                 time_limit: float | None) -> None:
+                 time_limit: float | None, render: Any) -> None:
     """Worker set-up: leave Ctrl-C to the parent, remember the settings, load the engine."""
     global _WORKER_CONFIG
+    import gc
+
     signal.signal(signal.SIGINT, signal.SIG_IGN)
-    _WORKER_CONFIG = (settings, max_bytes, time_limit)
+    # a record's objects hold no reference cycles (tests/test_engine_memory.py): collecting
+    # less often saves about a tenth of a worker's time (bench/bench_repository.py)
+    gc.set_threshold(*WORKER_GC_THRESHOLDS)
+    _WORKER_CONFIG = (settings, max_bytes, time_limit, render)
     from sheetlint.relations.registry import all_relations
 
     all_relations()
 
 
 def _check_chunk(paths: list[str]) -> bytes:
-    """Worker task: check ``paths`` and return the pickled results (without ``sheet``)."""
-    settings, max_bytes, time_limit = _WORKER_CONFIG
-    results = [_portable(check_file(p, settings, max_bytes=max_bytes, time_limit=time_limit))
-               for p in paths]
+    """Worker task: check ``paths`` and return the pickled results (without ``sheet``), or
+    what ``render`` makes of them."""
+    settings, max_bytes, time_limit, render = _WORKER_CONFIG
+    results = [render_safely(render, _portable(check_file(
+        p, settings, max_bytes=max_bytes, time_limit=time_limit))) for p in paths]
     try:
         return pickle.dumps(results, protocol=pickle.HIGHEST_PROTOCOL)
     except Exception:  # something in a result does not pickle: report it per file
-        return pickle.dumps([_pickle_or_error(r) for r in results],
+        return pickle.dumps([_pickle_or_error(r, render) for r in results],
                             protocol=pickle.HIGHEST_PROTOCOL)
 
 
@@ -214,11 +239,11 @@ def _portable(result: FileResult) -> FileResult:
     return result
 
 
-def _pickle_or_error(result: FileResult) -> FileResult:
+def _pickle_or_error(result: Any, render: Callable[[FileResult], Any] | None) -> Any:
     try:
         pickle.dumps(result, protocol=pickle.HIGHEST_PROTOCOL)
     except Exception as exc:
-        return FileResult(result.path, f"{result.path}: internal error of sheetlint (result "
-                                       f"does not pickle: {type(exc).__name__}); please report "
-                                       "it with this input")
+        return render_safely(render, FileResult(
+            result.path, f"{result.path}: internal error of sheetlint (result does not "
+                         f"pickle: {type(exc).__name__}); please report it with this input"))
     return result

@@ -155,3 +155,144 @@ def test_generator_can_be_abandoned_without_leaving_workers(tmp_path):
     while multiprocessing.active_children() and time.monotonic() < deadline:
         time.sleep(0.05)
     assert not multiprocessing.active_children()
+
+
+# --- streaming reports over a repository of a few hundred files ---------------------------------
+def _repository(root: Path, count: int = 300) -> Path:
+    """Single-record JSON and YAML files of consistent synthetic machines (invented), with
+    planted slips, repeated keys, several-record files and unreadable files among them."""
+    import yaml
+
+    from sheetlint.synth import MachineSpec, record
+
+    folder = root / "repository"
+    bases = [record(MachineSpec(power, speed, poles), f"BASE-{i}")
+             for i, (power, speed, poles) in enumerate(
+                 [(5.5, 1500, 4), (15, 1000, 6), (45, 3000, 8), (90, 750, 10)])]
+    for i in range(count):
+        sub = folder / f"lot-{i // 100}"
+        sub.mkdir(parents=True, exist_ok=True)
+        data = json.loads(json.dumps(bases[i % len(bases)]))
+        data["id"] = f"RP-{i:04d} (invented)"
+        if i % 5 == 1:
+            data["rated"]["torque"] = data["rated"]["torque"].replace(" ", "0 ", 1)
+        if i % 37 == 5:
+            (sub / f"m{i:04d}.json").write_text('{"id": "broken", ', encoding="utf-8")
+        elif i % 41 == 7:
+            text = json.dumps(data, indent=2).replace(
+                '"maker":', '"maker": "Twice Works (invented)",\n  "maker":', 1)
+            (sub / f"m{i:04d}.json").write_text(text, encoding="utf-8")
+        elif i % 43 == 9:
+            (sub / f"m{i:04d}.json").write_text(json.dumps(
+                {"records": [data, {"id": "RP-bad", "rated": {"power": "15 kg"}}]}),
+                encoding="utf-8")
+        elif i % 3 == 0:
+            (sub / f"m{i:04d}.yaml").write_text(yaml.safe_dump(data, sort_keys=False),
+                                                encoding="utf-8")
+        else:
+            (sub / f"m{i:04d}.json").write_text(json.dumps(data, indent=2), encoding="utf-8")
+    return folder
+
+
+def _stream(report: object, paths: list[str], jobs: int) -> tuple[str, int]:
+    import io
+
+    from sheetlint.report import ReportWriter
+
+    buffer = io.StringIO()
+    writer = ReportWriter(report, buffer)  # type: ignore[arg-type]
+    writer.start()
+    for part in check_paths(paths, jobs=jobs, render=report.part):  # type: ignore[attr-defined]
+        writer.add(part)
+    status = writer.finish().exit_status()
+    return buffer.getvalue(), status
+
+
+class _EveryReport:
+    """The parts of the three streaming reports of one file, made in one check."""
+
+    def __init__(self) -> None:
+        from sheetlint.report.json_report import JsonReport
+        from sheetlint.report.sarif import SarifReport
+        from sheetlint.report.text_stream import TextReport
+
+        self.reports = (TextReport(), JsonReport(), SarifReport())
+
+    def part(self, result: FileResult) -> tuple[object, ...]:
+        return tuple(report.part(result) for report in self.reports)
+
+
+def _stream_every_report(paths: list[str], jobs: int) -> list[tuple[str, int]]:
+    import io
+
+    from sheetlint.report import ReportWriter
+
+    every = _EveryReport()
+    buffers = [io.StringIO() for _ in every.reports]
+    writers = [ReportWriter(r, b) for r, b in zip(every.reports, buffers, strict=True)]
+    for parts in check_paths(paths, jobs=jobs, render=every.part):
+        for writer, part in zip(writers, parts, strict=True):
+            writer.add(part)
+    statuses = [writer.finish().exit_status() for writer in writers]
+    return [(b.getvalue(), status) for b, status in zip(buffers, statuses, strict=True)]
+
+
+def test_streamed_reports_of_serial_and_parallel_runs_are_byte_identical(tmp_path):
+    paths = [str(_repository(tmp_path)), str(tmp_path / "missing")]
+    serial = _stream_every_report(paths, jobs=1)
+    workers = _stream_every_report(paths, jobs=2)
+    for (serial_text, status_1), (workers_text, status_2) in zip(serial, workers, strict=True):
+        assert serial_text == workers_text
+        assert status_1 == status_2 == 2
+    assert len(json.loads(workers[1][0])["files"]) == 301  # JSON: one valid document
+    assert len(json.loads(workers[2][0])["runs"][0]["artifacts"]) == 301  # SARIF too
+
+
+def test_streamed_json_is_one_document_with_the_contract_summary(tmp_path):
+    from sheetlint.report.json_report import JsonReport
+
+    folder = _repository(tmp_path, 60)
+    streamed, _ = _stream(JsonReport(), [str(folder)], jobs=1)
+    document = json.loads(streamed)
+    results = list(check_paths([str(folder)], jobs=1))
+    assert document["summary"] == json_report.summary(results)
+    assert document["summary"]["files"] == 60
+    assert document["files"] == json.loads(json_report.render(results))["files"]
+    assert json.loads(_stream(JsonReport(), [], jobs=1)[0])["files"] == []
+
+
+def test_streamed_text_is_the_text_report_with_its_final_newline(tmp_path):
+    from sheetlint.report.text_stream import TextReport
+
+    folder = _mixed_folder(tmp_path, 2)
+    streamed, _ = _stream(TextReport(show_derived=True), [str(folder)], jobs=1)
+    results = list(check_paths([str(folder)], jobs=1))
+    assert streamed == text.render(results, show_derived=True) + "\n"
+
+
+def test_each_file_is_written_as_soon_as_it_is_checked(tmp_path):
+    import io
+
+    from sheetlint.report import ReportWriter
+    from sheetlint.report.json_report import JsonReport
+
+    folder = _repository(tmp_path, 12)
+    report = JsonReport()
+    buffer = io.StringIO()
+    writer = ReportWriter(report, buffer)
+    parts = check_paths([str(folder)], jobs=1, render=report.part)
+    writer.add(next(parts))
+    assert buffer.getvalue().count('{"path": ') == 1  # the other 11 files are not checked yet
+    parts.close()
+
+
+def test_cli_streams_the_same_bytes_with_and_without_workers(tmp_path):
+    folder = _repository(tmp_path, 80)
+    outputs = []
+    for jobs in ("1", "2"):
+        out = tmp_path / f"report-{jobs}.sarif"
+        status = main(["check", "--no-config", "--format", "sarif", "--jobs", jobs,
+                       "-o", str(out), str(folder)])
+        assert status == 2
+        outputs.append(out.read_bytes())
+    assert outputs[0] == outputs[1]
