@@ -1,10 +1,12 @@
 """Checking a large batch in worker processes, with results in input order.
 
 The files are cut into chunks; a :class:`multiprocessing.pool.Pool` checks one chunk per task
-(``imap``, so the results come back in input order) and sends back the pickled
-:class:`~sheetlint.batch.FileResult` list. The engine's working ``sheet`` of each record is
-dropped in the worker (it holds a location closure that does not pickle and no report but the
-serial HTML one reads it); everything else is the same as in a serial run.
+(handed out a few chunks ahead of the one awaited; the parent takes the results in input
+order) and sends back the pickled :class:`~sheetlint.batch.FileResult` list, or, for a
+streaming report, each file's part of the report (text and counts). The engine's working
+``sheet`` of each record is dropped in the worker (it holds a location closure that does not
+pickle and no report but the serial HTML one reads it); everything else is the same as in a
+serial run.
 
 Each worker enforces the per-file time limit itself (SIGALRM, see :func:`sheetlint.batch.
 check_file`). The parent watches as a backstop: when a chunk is not back within its time
@@ -20,6 +22,7 @@ import os
 import pickle
 import signal
 import time
+from collections import deque
 from collections.abc import Callable, Iterator, Sequence
 from typing import TYPE_CHECKING, Any
 
@@ -34,6 +37,8 @@ if TYPE_CHECKING:  # multiprocessing is imported only when workers start (start-
 PARALLEL_MIN_FILES = 200
 #: files per task: large enough to keep pickling and queueing cheap, small enough to balance
 MAX_CHUNK = 32
+#: chunks handed to the pool per worker beyond the one whose results are awaited
+CHUNKS_AHEAD = 4
 #: extra seconds the parent allows beyond the per-file limits before it stops a worker
 GRACE_SECONDS = 10.0
 #: how often the parent looks for dead workers while it waits, seconds
@@ -113,27 +118,37 @@ def check_in_workers(files: Sequence[str], settings: Settings | None, *, workers
 
 def _ordered_results(pool: Pool, chunks: list[list[str]],
                      time_limit: float | None) -> Iterator[list[Any] | None]:
-    """Each chunk's results in order; None (and stop) when a chunk stalls or a worker dies."""
-    iterator = pool.imap(_check_chunk, chunks, chunksize=1)
+    """Each chunk's results in order; None (and stop) when a chunk stalls or a worker dies.
+
+    At most :data:`CHUNKS_AHEAD` chunks per worker are handed out beyond the one awaited, so
+    that results finished early (while one slow file holds up the order) wait in this
+    process in bounded number, not the whole batch's.
+    """
     pids = _worker_pids(pool)
+    ahead = CHUNKS_AHEAD * max(1, len(pids) if pids else 1)
+    pending: deque[Any] = deque()
+    handed_out = 0
     for chunk in chunks:
+        while handed_out < len(chunks) and len(pending) < ahead:
+            pending.append(pool.apply_async(_check_chunk, (chunks[handed_out],)))
+            handed_out += 1
         budget = None if time_limit is None else len(chunk) * time_limit + GRACE_SECONDS
-        payload = _wait(iterator, pool, pids, budget)
+        payload = _wait(pending.popleft().get, pool, pids, budget)
         if payload is None:
             yield None
             return
         yield pickle.loads(payload)
 
 
-def _wait(iterator: Any, pool: Pool, pids: frozenset[int] | None,
+def _wait(get: Callable[..., bytes], pool: Pool, pids: frozenset[int] | None,
           budget: float | None) -> bytes | None:
-    """The next result, or None when ``budget`` seconds pass or a worker process dies."""
+    """The result ``get`` gives, or None when ``budget`` seconds pass or a worker dies."""
     from multiprocessing import TimeoutError as Pending
 
     start = time.monotonic()
     while True:
         try:
-            return iterator.next(timeout=POLL_SECONDS)
+            return get(timeout=POLL_SECONDS)
         except Pending:
             pass
         if budget is not None and time.monotonic() - start > budget:
@@ -156,7 +171,7 @@ def _isolate(chunk: list[str], config: tuple[Settings | None, int | None, float 
                 pool = _start_pool(1, config)
             iterator = pool.imap(_check_chunk, [[path]], chunksize=1)
             budget = None if time_limit is None else time_limit + GRACE_SECONDS
-            payload = _wait(iterator, pool, _worker_pids(pool), budget)
+            payload = _wait(iterator.next, pool, _worker_pids(pool), budget)
             if payload is not None:
                 yield from pickle.loads(payload)
                 continue
