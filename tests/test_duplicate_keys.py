@@ -125,3 +125,73 @@ def test_the_rule_can_be_left_out_like_any_other(tmp_path, capsys):
 def test_the_rule_is_documented(capsys):
     assert main(["explain", "duplicate-key"]) == 0
     assert "RFC 8259" in capsys.readouterr().out
+
+
+# --- repeated keys anywhere, against the layout of an indented JSON text ----------------------
+from hypothesis import given  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+from sheetlint.intake.records import _json_duplicates  # noqa: E402
+
+
+class _Pairs(list):
+    """An object written as its (key, value) pairs, so that a key may come twice."""
+
+
+def _dump(value: object, indent: str = "") -> str:
+    """JSON in the layout of json.dumps(indent=2), objects given as pairs."""
+    inner = indent + "  "
+    if isinstance(value, _Pairs):
+        if not value:
+            return "{}"
+        members = [f"{inner}{json.dumps(k)}: {_dump(v, inner)}" for k, v in value]
+        return "{\n" + ",\n".join(members) + "\n" + indent + "}"
+    if isinstance(value, list):
+        if not value:
+            return "[]"
+        return "[\n" + ",\n".join(inner + _dump(v, inner) for v in value) + "\n" + indent + "]"
+    return json.dumps(value)
+
+
+def _height(value: object) -> int:
+    if isinstance(value, _Pairs) and value:
+        return 2 + sum(_height(v) for _k, v in value)
+    if isinstance(value, list) and value:
+        return 2 + sum(_height(v) for v in value)
+    return 1
+
+
+def _expected(value: object, path: str, line: int, out: list[DuplicateKey]) -> None:
+    """Repeats with the lines of the layout: a member's key sits on the member's first line."""
+    below = line + 1
+    if isinstance(value, _Pairs):
+        first: dict[str, int] = {}
+        for key, child in value:
+            child_path = f"{path}.{key}" if path else key
+            if key in first:
+                out.append(DuplicateKey(child_path, first[key], below))
+            else:
+                first[key] = below
+            _expected(child, child_path, below, out)
+            below += _height(child)
+    elif isinstance(value, list):
+        for i, child in enumerate(value):
+            _expected(child, f"{path}[{i}]", below, out)
+            below += _height(child)
+
+
+_keys = st.sampled_from(["a", "b", "c"])
+_values = st.recursive(
+    st.one_of(st.integers(0, 9), st.text(alphabet="xyz{}[],:", max_size=4)),
+    lambda inner: st.lists(inner, max_size=3) | st.lists(st.tuples(_keys, inner), max_size=4)
+    .map(_Pairs), max_leaves=10)
+
+
+@given(st.lists(st.tuples(_keys, _values), max_size=5).map(_Pairs))
+def test_every_repeat_is_found_with_the_lines_of_the_layout(document: _Pairs):
+    expected: list[DuplicateKey] = []
+    _expected(document, "", 1, expected)
+    # depth-first order of the text: sort both by the line of the second key
+    found = _json_duplicates(_dump(document))
+    assert sorted(found, key=lambda d: (d.second_line, d.path)) == sorted(
+        expected, key=lambda d: (d.second_line, d.path))

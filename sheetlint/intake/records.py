@@ -320,6 +320,9 @@ def _json_duplicates(text: str) -> list[DuplicateKey]:
             continue
         if token == ":":
             continue
+        if token in ("}", "]"):
+            stack.pop()
+            continue
         if top is not None and top[0] and top[4]:
             key = json.loads(token)
             path = f"{top[1]}.{key}" if top[1] else key
@@ -329,9 +332,6 @@ def _json_duplicates(text: str) -> list[DuplicateKey]:
                 top[3][key] = line
             top[2] = path
             top[4] = False
-            continue
-        if token in ("}", "]"):
-            stack.pop()
             continue
         if top is None:
             path = ""
