@@ -185,6 +185,8 @@ class Settings:
     select: frozenset[str] | None = None
     ignore: frozenset[str] = frozenset()
     options: dict[str, dict[str, Any]] = field(default_factory=dict)
+    #: False when no report of the run shows info findings: their lines are not looked up
+    locate_info: bool = True
 
     def option(self, rule: str, name: str, default: Any) -> Any:
         return self.options.get(rule, _NO_OPTIONS).get(name, default)
@@ -282,7 +284,7 @@ class Sheet:
             act.update(actual_text)
         fields = tuple(fields)
         location = None
-        if self.locate is not None:
+        if self.locate is not None and (severity != "info" or self.settings.locate_info):
             located = self.located
             for f in fields:
                 if f in located:
