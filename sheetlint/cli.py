@@ -114,8 +114,8 @@ class OutputProblem(Exception):
     """The report cannot be written where asked; exit status 2 with the message."""
 
 
-def _check_batch(args: argparse.Namespace, render: Any = None,
-                 progress: bool = True) -> tuple[Any, str] | int:
+def _check_batch(args: argparse.Namespace, render: Any = None, progress: bool = True,
+                 locate_info: bool = True) -> tuple[Any, str] | int:
     """Resolve the configuration and check every path (an iterator of results, or of
     ``render``'s parts); exit status 2 on a bad configuration."""
     from sheetlint.batch import check_paths
@@ -130,7 +130,12 @@ def _check_batch(args: argparse.Namespace, render: Any = None,
         return 2
     for warning in resolved.warnings:
         print(f"sheetlint: warning: {warning}", file=sys.stderr)
-    results_iter = check_paths(args.paths, resolved.settings, jobs=args.jobs,
+    settings = resolved.settings
+    if not locate_info:  # the report shows no info finding: their lines are not looked up
+        import dataclasses
+
+        settings = dataclasses.replace(settings, locate_info=False)
+    results_iter = check_paths(args.paths, settings, jobs=args.jobs,
                                time_limit=args.time_limit, max_bytes=args.max_file_size,
                                render=render)
     if progress and not args.no_progress:
@@ -174,7 +179,8 @@ def cmd_check(args: argparse.Namespace) -> int:
         report = TextReport(show_info=not args.quiet, show_derived=args.show_derived)
     # results stream to the output as files finish; on a terminal they are the progress
     progress = bool(args.output) or not _is_terminal(sys.stdout)
-    outcome = _check_batch(args, render=report.part, progress=progress)
+    outcome = _check_batch(args, render=report.part, progress=progress,
+                           locate_info=not (args.format == "text" and args.quiet))
     if isinstance(outcome, int):
         return outcome
     parts, fail_on = outcome
