@@ -296,3 +296,29 @@ def test_cli_streams_the_same_bytes_with_and_without_workers(tmp_path):
         assert status == 2
         outputs.append(out.read_bytes())
     assert outputs[0] == outputs[1]
+
+
+def test_quiet_text_skips_info_lines_yet_prints_the_same_report(tmp_path, capsys):
+    # errors and warnings keep their lines; only the infos, which --quiet hides, lose them
+    folder = _repository(tmp_path, 40)
+    status = main(["check", "--no-config", "--quiet", "--jobs", "1", str(folder)])
+    quiet = capsys.readouterr().out
+    results = list(check_paths([str(folder)], jobs=1))
+    assert quiet == text.render(results, show_info=False) + "\n"
+    assert status == exit_status(results) == 2
+    assert ".json:" in quiet  # findings shown with their lines
+
+
+def test_settings_without_info_lines_leave_other_findings_located(tmp_path):
+    from sheetlint.engine.core import Settings
+
+    folder = _repository(tmp_path, 12)
+    full = list(check_paths([str(folder)], jobs=1))
+    lean = list(check_paths([str(folder)], Settings(locate_info=False), jobs=1))
+    pairs = [(a, b) for f, g in zip(full, lean, strict=True)
+             for r, s in zip(f.records, g.records, strict=True)
+             for a, b in zip(r.findings, s.findings, strict=True)]
+    assert pairs
+    for located, lean_finding in pairs:
+        expected = None if located.severity == "info" else located.location
+        assert lean_finding.location == expected
