@@ -201,25 +201,34 @@ def _depth_exceeds(data: Any, limit: int) -> bool:
 _SPACE = re.compile(r"[ \t\n\r]*")
 _KEY = re.compile(r'"((?:[^"\\]|\\.)*)"[ \t\n\r]*:[ \t\n\r]*')
 _INDEX = re.compile(r"\[(\d+)\]")
+_FIRST_KEY = re.compile(r"[^.\[]*")
+#: after a value: spaces, and a comma with the spaces after it when another member follows
+_NEXT = re.compile(r"[ \t\n\r]*(?:(,)[ \t\n\r]*)?")
 _skip_value = json.scanner.make_scanner(json.JSONDecoder())  # type: ignore[attr-defined]
 
 
 class JsonLines:
     """The line of the value at a key path of a valid JSON text, found when asked.
 
-    Only the path asked for is followed: the objects and arrays on the way are entered, every
-    sibling value before the one wanted is skipped by the C scanner of :mod:`json`, and the
-    line is the count of newlines before the value. A file whose findings name no location
-    costs nothing; one that does costs the part of the text before the values named. Paths
-    are the record's (``rated.power``, ``points[1].speed``, ``records[2].rated.power``); of
-    repeated keys the first is found.
+    Only the path asked for is followed: each object or array on the way is read as far as
+    needed and what was read is kept for the next question (the offset of each member or
+    item; a value passed over is skipped by the C scanner of :mod:`json`, not parsed in
+    Python), and the line is the count of newlines before the value. A file whose findings
+    name no location costs nothing; one that does costs the text up to the values named, read
+    once. Paths are the record's (``rated.power``, ``points[1].speed``,
+    ``records[2].rated.power``); of repeated keys the first is found.
     """
 
-    __slots__ = ("found", "text")
+    __slots__ = ("found", "items", "members", "start", "text")
 
     def __init__(self, text: str) -> None:
         self.text = text
+        self.start = -1  # offset of the document's value, found on the first question
         self.found: dict[str, dict[str, Any] | None] = {}
+        #: object offset -> [key -> value offset, offset to read on from (-1: all read)]
+        self.members: dict[int, list[Any]] = {}
+        #: array offset -> [item offsets, offset to read on from (-1: all read)]
+        self.items: dict[int, list[Any]] = {}
 
     def __call__(self, path: str) -> dict[str, Any] | None:
         try:
@@ -237,60 +246,86 @@ class JsonLines:
     def _offset(self, path: str) -> int | None:
         """Offset of the first character of the value at ``path``, None when absent."""
         text = self.text
-        position = _SPACE.match(text, 0).end()  # type: ignore[union-attr]
+        if self.start < 0:
+            self.start = _SPACE.match(text, 0).end()  # type: ignore[union-attr]
+        position = self.start
         rest = path
-        while True:
-            if not rest:
-                return position
+        while rest:
             opening = text[position]
-            if opening == "[" and rest[0] == "[":
+            if opening == "{" and rest[0] != "[":
+                key = _FIRST_KEY.match(rest).group(0)  # type: ignore[union-attr]
+                found = self._member(position, key)
+                if found < 0 and len(rest) > len(key):  # perhaps a key with "." or "[" in it
+                    found, key = self._dotted_member(position, rest)
+                rest = rest[len(key):]
+            elif opening == "[" and rest[0] == "[":
                 index_match = _INDEX.match(rest)
                 if index_match is None:
                     return None
-                position = self._item(position, int(index_match.group(1)))
+                found = self._item(position, int(index_match.group(1)))
                 rest = rest[index_match.end():]
-            elif opening == "{" and rest[0] != "[":
-                position, rest = self._member(position, rest)
             else:
                 return None
-            if position < 0:
+            if found < 0:
                 return None
-            if rest.startswith("."):
+            position = found
+            if rest[:1] == ".":
                 rest = rest[1:]
-
-    def _item(self, position: int, index: int) -> int:
-        """Offset of item ``index`` of the array at ``position``, or -1."""
-        text = self.text
-        position = _SPACE.match(text, position + 1).end()  # type: ignore[union-attr]
-        if text[position] == "]":
-            return -1
-        for _ in range(index):
-            position = _SPACE.match(text, _skip_value(text, position)[1]).end()  # type: ignore
-            if text[position] != ",":
-                return -1
-            position = _SPACE.match(text, position + 1).end()  # type: ignore[union-attr]
         return position
 
-    def _member(self, position: int, rest: str) -> tuple[int, str]:
-        """Offset of the member of the object at ``position`` that ``rest`` starts with, and
-        what remains of ``rest``; -1 when none does."""
+    def _member(self, position: int, key: str | None) -> int:
+        """Offset of the value of ``key`` in the object at ``position`` (-1: no such key);
+        ``key`` None reads the whole object."""
+        state = self.members.get(position)
         text = self.text
-        position = _SPACE.match(text, position + 1).end()  # type: ignore[union-attr]
-        while text[position] == '"':
-            key_match = _KEY.match(text, position)
-            if key_match is None:
-                return -1, rest
-            key = key_match.group(1)
-            if "\\" in key:
-                key = json.loads(f'"{key}"')
-            position = key_match.end()
+        if state is None:
+            state = self.members[position] = [
+                {}, _SPACE.match(text, position + 1).end()]  # type: ignore[union-attr]
+        offsets = state[0]
+        if key in offsets:
+            return offsets[key]  # type: ignore[index]
+        at = state[1]
+        while at >= 0:
+            key_match = _KEY.match(text, at)
+            if key_match is None:  # the closing brace
+                at = -1
+                break
+            name = key_match.group(1)
+            if "\\" in name:
+                name = json.loads(f'"{name}"')
+            value_at = key_match.end()
+            if name not in offsets:
+                offsets[name] = value_at
+            after = _NEXT.match(text, _skip_value(text, value_at)[1])
+            at = after.end() if after.group(1) else -1  # type: ignore[union-attr]
+            if name == key:
+                break
+        state[1] = at
+        return offsets.get(key, -1)  # type: ignore[arg-type]
+
+    def _dotted_member(self, position: int, rest: str) -> tuple[int, str]:
+        """The member whose key ``rest`` starts with, though the key holds "." or "["."""
+        self._member(position, None)
+        for key, offset in self.members[position][0].items():
             if rest.startswith(key) and (len(rest) == len(key) or rest[len(key)] in ".["):
-                return position, rest[len(key):]
-            position = _SPACE.match(text, _skip_value(text, position)[1]).end()  # type: ignore
-            if text[position] != ",":
-                return -1, rest
-            position = _SPACE.match(text, position + 1).end()  # type: ignore[union-attr]
-        return -1, rest
+                return offset, key
+        return -1, ""
+
+    def _item(self, position: int, index: int) -> int:
+        """Offset of item ``index`` of the array at ``position`` (-1: no such item)."""
+        state = self.items.get(position)
+        text = self.text
+        if state is None:
+            first = _SPACE.match(text, position + 1).end()  # type: ignore[union-attr]
+            state = self.items[position] = [[], -1 if text[first] == "]" else first]
+        offsets = state[0]
+        at = state[1]
+        while len(offsets) <= index and at >= 0:
+            offsets.append(at)
+            after = _NEXT.match(text, _skip_value(text, at)[1])
+            at = after.end() if after.group(1) else -1  # type: ignore[union-attr]
+        state[1] = at
+        return offsets[index] if index < len(offsets) else -1
 
 
 _JSON_TOKEN = re.compile(r'"(?:[^"\\]|\\.)*"|[{}\[\]:,]|[^\s{}\[\]:,"]+|\s+')
