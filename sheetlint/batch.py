@@ -88,15 +88,17 @@ def _walk(top: Path, problems: list[FileResult]) -> list[str]:
 
     found: list[tuple[tuple[str, ...], str]] = []
     root = str(top)  # normalised by Path: no "." parts, no doubled or trailing separators
+    base = "" if root == "." else root  # Path("./a") is shown as "a"
     root_parts = top.parts
     for folder, subfolders, names in os.walk(root, onerror=unreadable):
         subfolders[:] = [d for d in subfolders if not d.startswith(".")]
         below = folder[len(root):].lstrip(os.sep)
         parts = root_parts + tuple(below.split(os.sep)) if below else root_parts
+        shown = os.path.join(base, below) if below else base
         for name in names:
             if name.startswith(".") or not name.lower().endswith(DATA_SUFFIXES):
                 continue
-            candidate = os.path.join(folder, name)
+            candidate = os.path.join(shown, name) if shown else name
             if os.path.isfile(candidate):
                 found.append(((*parts, name), candidate))
     found.sort()
