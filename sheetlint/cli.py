@@ -184,6 +184,12 @@ def cmd_check(args: argparse.Namespace) -> int:
     if isinstance(outcome, int):
         return outcome
     parts, fail_on = outcome
+    # the first part before the output file is opened: the folder walk has then run, so a
+    # new report file inside a checked folder is not read as data while being written
+    import itertools
+
+    first = list(itertools.islice(parts, 1))
+    parts = itertools.chain(first, parts)
     try:
         stream = open(args.output, "w", encoding="utf-8") if args.output else sys.stdout
     except OSError as exc:
