@@ -322,3 +322,23 @@ def test_settings_without_info_lines_leave_other_findings_located(tmp_path):
     for located, lean_finding in pairs:
         expected = None if located.severity == "info" else located.location
         assert lean_finding.location == expected
+
+
+def test_a_walk_of_the_current_folder_names_files_as_before(tmp_path, monkeypatch):
+    # pathlib shows Path(".", "a.json") as "a.json": the walk on strings must name it the same
+    (tmp_path / "sub").mkdir()
+    for name in ("b.json", "a-b.json", "sub/a.yaml"):
+        (tmp_path / name).write_text("{}", encoding="utf-8")
+    monkeypatch.chdir(tmp_path)
+    assert batch.collect_files(["."])[0] == ["a-b.json", "b.json", "sub/a.yaml"]
+    assert batch.collect_files(["./sub/"])[0] == ["sub/a.yaml"]
+
+
+def test_a_new_report_file_inside_the_checked_folder_is_not_read_as_data(tmp_path,
+                                                                          monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    shutil.copy(FIXTURES / "consistent-spm-5k5-dosing-pump.yaml", tmp_path / "m.yaml")
+    status = main(["check", "--no-config", "--format", "json", "-o", "report.json", "."])
+    document = json.loads((tmp_path / "report.json").read_text(encoding="utf-8"))
+    assert [f["path"] for f in document["files"]] == ["m.yaml"]
+    assert status in (0, 1)
