@@ -220,12 +220,19 @@ def _pint_factor(unit: str, norm: str, kind: str) -> float:
     return factor
 
 
-def written_uncertainty(number_text: str, value: float, declared: bool) -> float:
+#: an integer is read as having at least this many significant digits (DESIGN.md, Judgement 1:
+#: catalogues print three or four), so a round number never buys a tolerance of tens of per cent
+LEAST_SIGNIFICANT_DIGITS = 3
+
+
+def written_uncertainty(number_text: str, value: float, declared: bool = True) -> float:
     """Relative uncertainty of a number from how it is written: half a unit of its last digit.
 
-    Declared ratings count every written digit (``1500`` → ±0.5); characteristics may be rounded
-    at trailing zeros (``1420`` → ±5, ``1420.0`` → ±0.05), as catalogues print them
-    (DESIGN.md, "Tolerance and severity").
+    A number with a decimal point counts every written digit (``1.5`` → ±0.05, ``1420.0`` →
+    ±0.05). An integer is read with at least three significant digits: its trailing zeros may
+    be rounding, but never more than that (``1420`` → ±5, ``100`` → ±0.5, ``20`` → ±0.05,
+    ``4`` → ±0.005), as DESIGN.md "Judgement" asks. ``declared`` is kept for callers; declared
+    ratings and characteristics follow the same rule.
     """
     if value == 0.0:
         return 0.0
@@ -237,8 +244,9 @@ def written_uncertainty(number_text: str, value: float, declared: bool) -> float
         half = 0.5 * 10.0 ** (exponent - decimals)
     else:
         digits = mantissa.lstrip("0")
-        zeros = 0 if declared else len(digits) - len(digits.rstrip("0"))
-        half = 0.5 * 10.0 ** (exponent + zeros)
+        significant = len(digits.rstrip("0"))
+        kept = max(LEAST_SIGNIFICANT_DIGITS, significant)
+        half = 0.5 * 10.0 ** (exponent + len(digits) - kept)
     return half / abs(value)
 
 

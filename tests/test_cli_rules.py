@@ -22,7 +22,8 @@ def test_rules_lists_every_rule_with_status_equation_and_source(
     status, out, _ = _run(capsys, "rules")
     assert status == 0
     for relation in all_relations():
-        assert f"{relation.rule}  [{relation.status}, {relation.kind}]" in out
+        assert f"{relation.rule}  [{relation.status}, " in out
+        assert relation.kind in out
         assert relation.equation in out
         assert relation.source in out
     assert {r.status for r in all_relations()} <= {"stable", "preview"}

@@ -156,6 +156,11 @@ class Finding:
     source: str = ""
     location: dict[str, Any] | None = None
     suppressed: str | None = None  # the reason, when a suppression in the record covers it
+    #: the findings one slip also explains, listed under the finding that names it
+    consequences: list[str] = field(default_factory=list)
+    #: ``expected`` and ``actual`` as SI floats, for reporters that print numbers
+    expected_si: dict[str, float] = field(default_factory=dict)
+    actual_si: dict[str, float] = field(default_factory=dict)
 
     def to_dict(self) -> dict[str, Any]:
         out: dict[str, Any] = {
@@ -172,6 +177,8 @@ class Finding:
         }
         if self.suppressed is not None:
             out["suppressed"] = self.suppressed
+        if self.consequences:
+            out["consequences"] = list(self.consequences)
         return out
 
 
@@ -193,6 +200,10 @@ class Settings:
         if rule in self.ignore:
             return False
         return self.select is None or rule in self.select
+
+    def every_rule(self) -> Settings:
+        """The same options with every rule enabled: the diagnosis reads the whole record."""
+        return Settings(options=self.options)
 
     @property
     def narrowed(self) -> bool:
@@ -292,7 +303,9 @@ class Sheet:
                 if location:
                     break
         return Finding(relation.rule, severity, message, fields, exp, act, deviation, cause,
-                       source if source is not None else relation.source, location)
+                       source if source is not None else relation.source, location,
+                       expected_si=dict(expected) if expected else {},
+                       actual_si=dict(actual) if actual else {})
 
 
 @dataclass(frozen=True, slots=True)

@@ -13,7 +13,6 @@ from typing import Any
 from pydantic import ValidationError
 
 from sheetlint.engine.build import build_sheet
-from sheetlint.engine.causes import diagnose
 from sheetlint.engine.core import (
     DERIVED,
     ESTIMATE,
@@ -25,6 +24,7 @@ from sheetlint.engine.core import (
     Settings,
     Sheet,
 )
+from sheetlint.engine.diagnosis import explain
 from sheetlint.engine.monomial import Evaluation, Monomial
 from sheetlint.fields import display_quantity
 from sheetlint.intake.records import RawRecord
@@ -136,29 +136,43 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
                index: int | None = None) -> RecordResult:
     settings = settings or Settings()
     sheet, notes = build_sheet(record, settings, locate)
-    relations = all_relations()
-    findings: list[Finding] = list(notes)
-    for relation in relations_with("screen"):
-        findings.extend(relation.screen(sheet))  # type: ignore[attr-defined]
-    derive(sheet, relations)
-    evaluations: list[Evaluation] = []
-    narrowed = settings.narrowed
-    # the relations that check anything; a rule left out by select/ignore is not checked,
-    # except a monomial: every failing monomial takes part in the cause diagnosis of the others
-    checked = relations_where(
-        ("checked", settings.select, settings.ignore),
-        lambda r: _checks(r) and (settings.enabled(r.rule) or isinstance(r, Monomial)))
-    for relation in checked:
-        check_relation(relation, sheet, findings, evaluations)
-    findings.extend(_explain_failures(sheet, evaluations))
-    findings.extend(sheet.findings)
+    given = dict(sheet.values)
+    attributes = dict(sheet.attributes)
+    # every rule is checked and diagnosed, so that a cause reconciles the whole record; rules
+    # left out by the selection are dropped afterwards
+    everything = settings.every_rule()
+
+    def recheck(values: dict[str, Known]) -> list[Finding]:
+        return check_sheet(Sheet(record.id, values, dict(attributes), everything), everything)
+
+    findings = explain(sheet, given, check_sheet(sheet, everything), recheck,
+                       settings.enabled)
+    findings = [*notes, *findings]
     _estimate(sheet, relations_with("estimate"))
-    if narrowed:
+    if settings.narrowed:
         findings = [f for f in findings if settings.enabled(f.rule) or f.rule == "unreadable"]
     _apply_suppressions(sheet, findings)
     findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))
     derived = {name: k for name, k in sheet.values.items() if k.origin != GIVEN}
     return RecordResult(record.id, None, findings, derived, sheet, index)
+
+
+def check_sheet(sheet: Sheet, settings: Settings) -> list[Finding]:
+    """Screen, derive to a fixed point and check one sheet: its findings, causes not yet named."""
+    relations = all_relations()
+    findings: list[Finding] = []
+    for relation in relations_with("screen"):
+        findings.extend(relation.screen(sheet))  # type: ignore[attr-defined]
+    derive(sheet, relations)
+    evaluations: list[Evaluation] = []
+    checked = relations_where(
+        ("checked", settings.select, settings.ignore),
+        lambda r: _checks(r) and settings.enabled(r.rule))
+    for relation in checked:
+        check_relation(relation, sheet, findings, evaluations)
+    findings.extend(e.finding for e in evaluations if e.finding is not None)
+    findings.extend(sheet.findings)
+    return findings
 
 
 def _checks(relation: Relation) -> bool:
@@ -285,30 +299,6 @@ def _derive_plan(relations: tuple[Any, ...]) -> DerivePlan:
                       inputs is None, bool(getattr(relation, "per_point", False))))
     return DerivePlan(tuple(steps), {k: tuple(v) for k, v in readers.items()},
                       tuple(i for i, step in enumerate(steps) if step[3]))
-
-
-def _explain_failures(sheet: Sheet, evaluations: list[Evaluation]) -> list[Finding]:
-    """Findings of failing monomial relations, with the cause and severity the slips decide."""
-    causes = diagnose(sheet, evaluations)
-    out: list[Finding] = []
-    for i, evaluation in enumerate(evaluations):
-        finding = evaluation.finding
-        if finding is None:
-            continue
-        candidates = causes.get(i, [])
-        if candidates:
-            finding.cause = "; or ".join(c.text() for c in candidates[:3])
-            if len(candidates) == 1 or len({c.field for c in candidates}) == 1:
-                cause = candidates[0]
-                known = sheet.get(cause.field)
-                if cause.slip.basis and known is not None and not known.basis_stated:
-                    finding.severity = "warning"
-                    finding.message += (f"; the sheet does not state the basis of "
-                                        f"{cause.field}: please state it")
-                if cause.field not in finding.fields:
-                    finding.fields = (*finding.fields, cause.field)
-        out.append(finding)
-    return out
 
 
 def _apply_suppressions(sheet: Sheet, findings: list[Finding]) -> None:

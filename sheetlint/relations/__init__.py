@@ -7,4 +7,5 @@ from sheetlint.relations import (  # noqa: F401
     machine,
     mechanics,
     standards,
+    torque,
 )

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import functools
+import math
 from collections.abc import Callable, Iterator
 
 from sheetlint.engine.core import Finding, Relation, Sheet
@@ -76,12 +77,16 @@ def _power_factor(value: float) -> str | None:
 
 
 def _pole_count(value: float) -> str | None:
+    if not math.isfinite(value) or value > MAGNITUDE_ENVELOPE[1]:
+        return "far outside the range of any electrical machine"
     if value < 2 or value != int(value) or int(value) % 2:
         return "a pole count must be an even integer of at least 2"
     return None
 
 
 def _positive_integer(value: float) -> str | None:
+    if not math.isfinite(value) or value > MAGNITUDE_ENVELOPE[1]:
+        return "far outside the range of any electrical machine"
     if value < 1 or value != int(value):
         return "must be a positive integer"
     return None

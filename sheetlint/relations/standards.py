@@ -426,8 +426,8 @@ class EfficiencyClass(Relation):
 
 def _band_finding(relation: Relation, sheet: Sheet, quantity: str, value: float,
                   band: tuple[float, float | None], unit: str, fields: tuple[str, ...],
-                  cause: str | None, what: str) -> Finding | None:
-    """A warning when ``value`` lies outside ``band``; None inside it."""
+                  cause: str | None, what: str, severity: str = "warning") -> Finding | None:
+    """A finding (warning by default) when ``value`` lies outside ``band``; None inside it."""
     low, high = band
     if low is not None and value < low:
         edge, side = low, "below"
@@ -440,7 +440,7 @@ def _band_finding(relation: Relation, sheet: Sheet, quantity: str, value: float,
     else:
         band_text = f"{low:g}-{high:g} {unit}" if low else f"<= {high:g} {unit}"
     return sheet.finding(
-        relation, "warning",
+        relation, severity,  # type: ignore[arg-type]
         f"{what} {value:.3g} {unit} is {side} the usual band {band_text} (a band from memory, "
         "not a limit)", fields, deviation=value / edge - 1.0 if edge else None,
         expected_text={quantity: band_text}, actual_text={quantity: f"{value:.3g} {unit}"},
@@ -582,17 +582,17 @@ class OverloadRatio(Relation):
 
     What it checks
         ``limits.peak_torque``/``rated.torque`` and ``limits.peak_current``/``rated.current``
-        within 1-6 (common practice, from memory: industrial PM drives about 1.5-3, servo
-        motors about 3-5); options ``torque_band`` and ``current_band``. For a surface-magnet
-        machine (``spm``) the torque ratio cannot exceed the current ratio by more than the
-        inputs' rounding and a margin (option ``margin``, default 5 %): torque is Kt·I and
-        saturation lowers Kt at high current, it never raises it.
+        within the usual band (common practice, from memory: industrial PM drives about
+        1.5-3, servo motors 3-5 and more, since their ratings are referred to standstill);
+        options ``torque_band`` and ``current_band``. Outside the band is an info (a band of
+        practice), more than twice beyond it a warning; a peak *below* the rated value is an
+        error (the peak belongs to another rating or basis). Peak and rated torque per
+        ampere against Kt are checked by ``emf-constant``.
     Why it matters
-        A peak below the rated value, or a torque ratio above the current ratio of an SPM
-        machine, means one of the four values belongs to another rating or another basis
-        (peak current given as amplitude, rated torque as a peak).
+        A peak below the rated value means one of the values belongs to another rating or
+        another basis (peak current given as amplitude, rated torque as a peak).
     Example that fails
-        ``spm``, rated 10 N·m at 5 A, peak 40 N·m at 10 A.
+        rated 10 N·m at 5 A, peak 8 N·m at 10 A (peak torque below rated).
     Fix
         Check which values are peak and which are rms, and which rating they belong to.
     References
@@ -601,10 +601,11 @@ class OverloadRatio(Relation):
 
     rule = "overload-ratio"
     title = "Peak-to-rated ratios within the usual band"
-    equation = "1 ≤ T_peak/T_rated ≤ 6; T_peak/T_rated ≤ I_peak/I_rated (spm)"
+    equation = "X_peak ≥ X_rated; X_peak/X_rated in the usual band"
     fields = ("limits.peak_torque", "rated.torque", "limits.peak_current", "rated.current")
     kind = "band"
-    severity_policy = "warning (bands from memory); never an error"
+    severity_policy = ("error when a peak is below its rated value; info outside the usual band "
+                       "(from memory), warning more than twice beyond it")
     source = "Common practice; bands from memory, not verified"
     status = "preview"
     order = 80
@@ -613,8 +614,6 @@ class OverloadRatio(Relation):
                                   "usual peak-to-rated torque ratio"),
         "current_band": RuleOption("band", "from the sizing table (see above)",
                                    "usual peak-to-rated current ratio"),
-        "margin": RuleOption("number", "0.05", "how far the torque ratio of an spm machine "
-                             "may exceed its current ratio"),
     }
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
@@ -635,30 +634,26 @@ class OverloadRatio(Relation):
                 continue
             ratios[name] = ratio
             slack = sheet.get(peak).uncertainty + sheet.get(rated).uncertainty
+            if ratio < 1.0 - slack:
+                yield sheet.finding(
+                    self, "error", f"{peak} is below {rated} (ratio {ratio:.3g}): a short-time "
+                    "peak cannot be less than the continuous rating", (peak, rated),
+                    expected={peak: sheet.value(rated)}, actual={peak: sheet.value(peak)},
+                    deviation=ratio - 1.0, cause="the peak and rated values may be on "
+                    "different bases (peak vs rms) or belong to different ratings")
+                continue
             low, high = _option_band(sheet, self.rule, f"{name}_band", tuple(table[name]))
             band = (low * (1.0 - slack), None if high is None else high * (1.0 + slack))
             if band[0] <= ratio and (band[1] is None or ratio <= band[1]):
                 continue
+            far = (ratio < low / 2) or (high is not None and ratio > 2 * high)
             finding = _band_finding(
                 self, sheet, f"peak_to_rated_{name}", ratio, (low, high), "", (peak, rated),
                 "the peak and rated values may be on different bases (peak vs rms) or belong "
-                "to different ratings", f"peak-to-rated {name} ratio")
+                "to different ratings", f"peak-to-rated {name} ratio",
+                "warning" if far else "info")
             if finding is not None:
                 yield finding
-        if sheet.attr("machine.topology") == "spm" and len(ratios) == 2:
-            slack = sum(sheet.get(f).uncertainty for f in self.fields)
-            margin = float(sheet.option(self.rule, "margin", 0.05))
-            if ratios["torque"] > ratios["current"] * (1.0 + slack + margin):
-                yield sheet.finding(
-                    self, "warning",
-                    f"peak-to-rated torque ratio {ratios['torque']:.3g} exceeds the current "
-                    f"ratio {ratios['current']:.3g}: in a surface-magnet machine torque is Kt·I "
-                    "and saturation only lowers Kt at high current",
-                    self.fields, deviation=ratios["torque"] / ratios["current"] - 1.0,
-                    expected_text={"peak_to_rated_torque": f"<= {ratios['current']:.3g}"},
-                    actual_text={"peak_to_rated_torque": f"{ratios['torque']:.3g}"},
-                    cause="the peak current may be an amplitude (x√2) or the rated torque a "
-                          "value at another point")
 
 
 @register
