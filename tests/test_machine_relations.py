@@ -188,11 +188,17 @@ def test_overspeed_scales_ke_to_20c_when_no_lowest_ambient_is_given() -> None:
 
 
 def test_overspeed_below_dc_link_reports_the_crossing_speed_as_info() -> None:
-    values = {"emf.constant_cold": known(51.3 / (1000 * RPM)),
+    # Ke exact (no written digits to widen it): the crossing is the REFERENCES §8 vector,
+    # U_dc/(√2·Ke) = 540.19 V / (√2 · 51.3 V/krpm) = 7446 r/min (derived by arithmetic)
+    values = {"emf.constant_cold": Known(51.3 / (1000 * RPM), 0.0),
               "supply.dc_link_voltage": Known(540.19, 1e-5)}
     findings = run(OverspeedEmf, Sheet("os", values, {}))
     assert [f.severity for f in findings] == ["info"]
-    assert "7446 r/min" in findings[0].message  # REFERENCES §8 derived vector
+    assert "7446 r/min" in findings[0].message
+    # written as 51.30 V/krpm (±0.005): the unsafe end, 51.305 V/krpm, crosses at 7445 r/min
+    values["emf.constant_cold"] = Known(51.3 / (1000 * RPM), 0.005 / 51.3)
+    findings = run(OverspeedEmf, Sheet("os", values, {}))
+    assert "7445 r/min" in findings[0].message
 
 
 # --- inductances given line-to-line but labelled per phase ----------------------------------------

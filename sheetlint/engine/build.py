@@ -197,6 +197,43 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
     return sheet, notes
 
 
+#: quantities of the trade that are not (yet) fields of the schema: never a misspelling of a
+#: field they merely resemble (DESIGN.md, Data contract)
+TRADE_QUANTITIES = frozenset({
+    "motor_constant", "kv", "velocity_constant", "speed_constant", "acceleration",
+    "cogging_torque", "voltage_constant", "back_emf_constant", "torque_ripple",
+    "thermal_resistance", "thermal_time_constant", "electrical_time_constant",
+    "mechanical_time_constant", "winding_resistance", "winding_inductance", "stall_torque",
+    "stall_current", "continuous_torque", "continuous_current", "no_load_speed",
+    "no_load_current", "friction_torque", "damping", "brake", "encoder", "resolver",
+    "protection", "ip_code", "weight", "frame", "shaft", "bearing", "noise", "vibration",
+})
+
+
+def _edit_distance(a: str, b: str) -> int:
+    """Levenshtein distance of two short names."""
+    previous = list(range(len(b) + 1))
+    for i, ca in enumerate(a, 1):
+        current = [i]
+        for j, cb in enumerate(b, 1):
+            current.append(min(previous[j] + 1, current[j - 1] + 1,
+                               previous[j - 1] + (ca != cb)))
+        previous = current
+    return previous[-1]
+
+
+def _misspelt(name: str, known: list[str]) -> list[str]:
+    """The known field ``name`` probably misspells: close in spelling (a typo is one or two
+    letters, a fifth of a long name at most), and not a trade quantity of its own."""
+    leaf = name.rsplit(".", 1)[-1].lower()
+    if leaf in TRADE_QUANTITIES or len(name) > 200:
+        return []
+    for candidate in difflib.get_close_matches(name, known, n=3, cutoff=0.8):
+        if _edit_distance(name, candidate) <= max(1, min(2, len(candidate) // 5)):
+            return [candidate]
+    return []
+
+
 @cache
 def _field_names(model_type: type) -> tuple[str, ...]:
     return tuple(model_type.model_fields)
@@ -217,9 +254,9 @@ def _unknown_field_notes(record: MachineRecord, fields_of: dict[str, Any], sheet
         for name in extra:
             path = f"{prefix}.{name}" if prefix else name
             if "." in name and not prefix:
-                close = difflib.get_close_matches(name, list(FIELDS), n=1, cutoff=0.8)
+                close = _misspelt(name, list(FIELDS))
             else:
-                close = difflib.get_close_matches(name, known, n=1, cutoff=0.8)
+                close = _misspelt(name, known)
             if close:
                 meant = f"{prefix}.{close[0]}" if prefix else close[0]
                 out.append(sheet.finding(rule, "warning",

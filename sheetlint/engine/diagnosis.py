@@ -25,6 +25,13 @@ from sheetlint.relations.registry import relation_for
 #: rules whose findings no slip of a value explains (they are about the file or the schema)
 NOT_DIAGNOSED = frozenset({"value-range", "unknown-field", "duplicate-key", "stale-acceptance",
                            "unused-suppression"})
+#: rules whose findings a reading must reconcile to count as an explanation: relations that
+#: compare values (a table or band that a corrected value merely leaves, e.g. a power moved
+#: under an efficiency table's range, is no evidence; such findings are grouped only as the
+#: consequences of an explanation)
+EVIDENCE = frozenset({"power-torque-speed", "synchronous-speed", "pole-count", "electrical-power",
+                      "loss-balance", "emf-constant", "voltage-margin", "dq-operating-point",
+                      "voltage-limit", "resistance-drop", "servo-constants"})
 #: at most this many re-checks per record (a record with many faults gets the first ones)
 MOST_RECHECKS = 80
 
@@ -113,7 +120,7 @@ def explain(sheet: Sheet, given: dict[str, Known], findings: list[Finding],
             if any(name in _givens_of(sheet, f) for f in remaining):
                 continue  # a finding on the same field stays: the reading explains it only in part
             removed = frozenset(k for k in original - after if k[0] not in NOT_DIAGNOSED)
-            if removed:
+            if any(k[0] in EVIDENCE for k in removed):
                 explanations.append(_Explanation(slip, removed))
     if not explanations:
         return findings

@@ -107,7 +107,7 @@ class LossBalance(Relation):
               "circuit.resistance")
     kind = "balance"
     severity_policy = "error beyond rounding; error when the copper loss exceeds the losses"
-    source = "IEC 60034-2-1:2014, determination of losses (summation), from memory"
+    source = "IEC 60034-2-1:2014, determination of losses (summation)"
     order = 14
     derive_inputs = ("rated.power", "rated.efficiency", "rated.losses", "rated.current",
                      "circuit.resistance_hot", "rated.losses.copper")
@@ -245,7 +245,7 @@ class ResistanceDrop(Relation):
     fields = ("circuit.resistance", "rated.current", "rated.voltage")
     kind = "band"
     severity_policy = "warning outside the band; info with the standstill voltage"
-    source = "common practice (no published source): REFERENCES.md §9"
+    source = "common practice (no published source)"
     order = 60
     options = {
         "low": RuleOption("number", "0.001", "standstill voltage below this share of the "

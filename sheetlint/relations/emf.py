@@ -250,9 +250,7 @@ class VoltageMargin(Relation):
             where = (f"the back-EMF with the magnets at {coolest - 273.15:.0f}–"
                      f"{hottest - 273.15:.0f} °C (not stated: {emf_low:.0f}–{emf_high:.0f} V "
                      "line rms)")
-        margin_text = (f"{margin_low:+.1%}" if abs(margin_high - margin_low) < 0.002
-                       else f"{margin_low:+.1%} … {margin_high:+.1%}")
-        text = f"rated voltage is {margin_text} over {where} at rated speed"
+        text = f"rated voltage is {_margin_words(margin_low, margin_high)} {where} at rated speed"
         topology = sheet.attr("machine.topology")
         fields = ("rated.voltage", "emf.constant", "rated.speed")
         if margin_high < 0:
@@ -269,7 +267,7 @@ class VoltageMargin(Relation):
         low, high = sheet.option(self.rule, "band", USUAL_BAND)
         warn_low, warn_high = sheet.option(self.rule, "warn", WARN_BAND)
         if margin_low > warn_high:
-            if _supply_class(u.value):
+            if is_supply_class(u.value):
                 yield sheet.finding(self, "info", f"{text}: far above the usual "
                                     f"{low:.0%}–{high:.0%} (common practice); the rated voltage "
                                     "reads as the supply class the motor is wound for", fields)
@@ -286,13 +284,23 @@ class VoltageMargin(Relation):
             yield sheet.finding(self, "info", text + " (usual, common practice)", fields)
 
 
+def _margin_words(low: float, high: float) -> str:
+    """"6.5 % over", "4.9 % under", "2.0 % under … 12.0 % over" the back-EMF."""
+    def one(m: float) -> str:
+        return f"{abs(m):.1%} {'over' if m >= 0 else 'under'}"
+    if abs(high - low) < 0.002:
+        return one(low)
+    return f"{one(low)} … {one(high)}"
+
+
 #: supply classes that servo and industrial sheets list as a motor's rated voltage (IEC 60038
 #: nominal voltages and the usual North-American ones; from memory)
 SUPPLY_CLASSES = (200.0, 208.0, 220.0, 230.0, 240.0, 380.0, 400.0, 415.0, 440.0, 460.0, 480.0,
                   500.0, 575.0, 600.0, 660.0, 690.0)
 
 
-def _supply_class(volts: float) -> bool:
+def is_supply_class(volts: float) -> bool:
+    """True for a voltage that is one of the usual supply classes (400 V, 480 V, ...)."""
     return any(abs(volts - c) < 0.5 for c in SUPPLY_CLASSES)
 
 

