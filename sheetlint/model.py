@@ -296,13 +296,15 @@ def _claim(value: Any) -> Any:
     return value
 
 
-class Suppression(BaseModel):
-    """A finding the record's author has reviewed: the rule id and a mandatory reason."""
+class Acceptance(BaseModel):
+    """A deviation the record's author has reviewed and accepts: the rule id, the fields it
+    concerns (all of them must be among the finding's fields; none: any finding of the rule)
+    and a mandatory reason."""
 
     model_config = ConfigDict(extra="forbid")
-    rule: str
+    rule: Annotated[str, Field(min_length=1)]
+    fields: list[Annotated[str, Field(min_length=1)]] = Field(default_factory=list)
     reason: Annotated[str, Field(min_length=1)]
-    field: str | None = None
 
 
 class MachineRecord(BaseModel):
@@ -327,9 +329,9 @@ class MachineRecord(BaseModel):
              "required": ["value"]},
             {"type": "null"}]})] = None
     points: list[Point] = Field(default_factory=list)
-    suppress: list[Suppression] = Field(
+    accepted: list[Acceptance] = Field(
         default_factory=list,
-        description="findings reviewed by the record's author: rule id and a reason")
+        description="known deviations the record's author accepts: rule, fields and a reason")
 
 
 SECTIONS = ("machine", "rated", "emf", "circuit", "limits", "supply")

@@ -46,7 +46,7 @@ def _in_tmp(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
 
 
 def _report(tmp_path: Path, capsys: pytest.CaptureFixture[str], *names: str) -> tuple[int, str]:
-    status = main(["report", "--no-config", *names, "-o", "report.html"])
+    status = main(["report", "--no-settings", *names, "-o", "report.html"])
     capsys.readouterr()
     return status, (tmp_path / "report.html").read_text(encoding="utf-8")
 

@@ -380,9 +380,9 @@ def test_short_time_rating_held_for_hours_is_a_warning() -> None:
 
 # --- registry and a consistent sheet ------------------------------------------------------------
 def test_rules_are_registered_with_their_order_and_status() -> None:
-    expected = {"temperature-rise": ("stable", 20), "efficiency-class": ("stable", 80),
-                "rotor-torque-density": ("preview", 80), "specific-losses": ("preview", 80),
-                "overload-ratio": ("preview", 80), "short-time-rating": ("preview", 80)}
+    expected = {"temperature-rise": ("established", 20), "efficiency-class": ("established", 80),
+                "rotor-torque-density": ("trial", 80), "specific-losses": ("trial", 80),
+                "overload-ratio": ("trial", 80), "short-time-rating": ("trial", 80)}
     for rule, (status, order) in expected.items():
         relation = relation_for(rule)
         assert relation is not None and (relation.status, relation.order) == (status, order)

@@ -2,7 +2,7 @@
 
 The tables behind them live in :mod:`sheetlint.standards` (data files with their sources).
 The plausibility bands (``rotor-torque-density``, ``specific-losses``, ``overload-ratio``,
-``short-time-rating``) are from memory and preview: they raise at most a warning.
+``short-time-rating``) are from memory and on trial: they raise at most a warning.
 """
 
 from __future__ import annotations
@@ -116,7 +116,7 @@ class TemperatureRise(Relation):
                        "limit or its correction is from memory or beyond the rules; info when "
                        "no limit is known")
     source = TEMPERATURE_RISE_SOURCE
-    status = "stable"
+    status = "established"
     order = 20
     derive_inputs = ("circuit.resistance", "circuit.resistance_hot", "rated.temperature_rise",
                      "machine.ambient", "rated.magnet_temperature")
@@ -301,7 +301,7 @@ class EfficiencyClass(Relation):
                        "below the class minimum; warning for the converter-fed approximation "
                        "and IE5; info when out of scope or borderline")
     source = LINE_OPERATED_SOURCE
-    status = "stable"
+    status = "established"
     order = 80
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
@@ -489,7 +489,7 @@ class RotorTorqueDensity(Relation):
     kind = "band"
     severity_policy = "warning outside the band (bands from memory); never an error"
     source = SIZING_SOURCE
-    status = "preview"
+    status = "trial"
     order = 80
     options = {"band_knm_per_m3": RuleOption(
         "band", "by cooling group (see above)", "usual torque per rotor volume, kN·m/m³")}
@@ -541,7 +541,7 @@ class SpecificLosses(Relation):
     kind = "band"
     severity_policy = "warning above the bound (from memory); never an error"
     source = "Common practice; rough bounds from memory, not verified"
-    status = "preview"
+    status = "trial"
     order = 80
     options = {"upper_w_per_kg": RuleOption(
         "number", "by cooling group (see above)", "highest usual rated losses per kg of "
@@ -606,7 +606,7 @@ class OverloadRatio(Relation):
     kind = "band"
     severity_policy = "warning (bands from memory); never an error"
     source = "Common practice; bands from memory, not verified"
-    status = "preview"
+    status = "trial"
     order = 80
     options = {
         "torque_band": RuleOption("band", "from the sizing table (see above)",
@@ -691,7 +691,7 @@ class ShortTimeRating(Relation):
     kind = "band"
     severity_policy = "warning (from memory); never an error"
     source = "IEC 60034-1:2010 duty types (from memory); common practice"
-    status = "preview"
+    status = "trial"
     order = 80
     options = {"continuous_after_s": RuleOption(
         "number", "from the sizing table (see above)", "a peak lasting this long, in s, is "

@@ -2,7 +2,7 @@
 
 Everything is inline: CSS in a ``<style>`` element, plots as inline SVG drawn here, no script,
 no font, no image and no link to the network, so the file opens the same offline and years later.
-Per machine: the findings (suppressed ones marked with their reason), two plots where a
+Per machine: the findings (accepted ones marked with their reason), two plots where a
 picture beats a table, the given values and the derived values with their provenance. Every
 string that comes from the data is escaped with :func:`html.escape`.
 
@@ -395,8 +395,8 @@ th{background:#f0f0f0}
 td.num{white-space:nowrap}
 .sev{font-weight:600;white-space:nowrap}
 .sev-error{color:#b00020}.sev-warning{color:#9a5b00}.sev-info{color:#455a64}
-tr.suppressed td{color:#777}tr.safety td{background:#fff8e1}
-tr.suppressed .sev{text-decoration:line-through}
+tr.accepted td{color:#777}tr.safety td{background:#fff8e1}
+tr.accepted .sev{text-decoration:line-through}
 .tag{font-size:.8em;border:1px solid #999;border-radius:3px;padding:0 .3em;margin-left:.3em}
 .cause,.supp{font-size:.9em;color:#333}
 .plots{display:flex;flex-wrap:wrap;gap:1em}
@@ -431,16 +431,16 @@ def _location_text(name: str, location: dict[str, Any] | None) -> str:
 
 
 def _finding_row(file_name: str, x: Finding) -> str:
-    classes = "suppressed" if x.suppressed is not None else ""
+    classes = "accepted" if x.accepted is not None else ""
     if x.rule in SAFETY_RULES and x.severity != "info":
         classes += " safety"
     severity = escape(x.severity)
-    tag = '<span class="tag">suppressed</span>' if x.suppressed is not None else ""
+    tag = '<span class="tag">accepted</span>' if x.accepted is not None else ""
     details = [f"<div>{escape(x.message)}</div>"]
     if x.cause:
         details.append(f'<div class="cause">likely cause: {escape(x.cause)}</div>')
-    if x.suppressed is not None:
-        details.append(f'<div class="supp">suppressed in the record: {escape(x.suppressed)}'
+    if x.accepted is not None:
+        details.append(f'<div class="supp">accepted in the record: {escape(x.accepted)}'
                        "</div>")
     expected = "<br>".join(f"{escape(k)} {escape(v)}" for k, v in x.expected.items())
     actual = "<br>".join(f"{escape(k)} {escape(v)}" for k, v in x.actual.items())
@@ -549,7 +549,7 @@ def render(results: list[FileResult], title: str | None = None) -> str:
         for record in f.records:
             number += 1
             anchor = f"r{number}"
-            active = [x for x in record.findings if x.suppressed is None]
+            active = [x for x in record.findings if x.accepted is None]
             worst = ("unreadable" if record.error else
                      next((s for s in ("error", "warning") if any(x.severity == s
                                                                   for x in active)), "ok"))
@@ -563,8 +563,8 @@ def render(results: list[FileResult], title: str | None = None) -> str:
                      f'<span class="sev sev-error">{counts["error"]} error(s)</span>',
                      f'<span class="sev sev-warning">{counts["warning"]} warning(s)</span>',
                      f'<span class="sev sev-info">{counts["info"]} info</span>']
-    if counts.get("suppressed"):
-        summary_items.append(f"<span>{counts['suppressed']} suppressed</span>")
+    if counts.get("accepted"):
+        summary_items.append(f"<span>{counts['accepted']} accepted</span>")
     return "\n".join([
         "<!DOCTYPE html>",
         '<html lang="en"><head><meta charset="utf-8">',

@@ -5,7 +5,7 @@ relation's docstring) plus any other rule id that appears in the results. Each f
 result with ``ruleId``, ``level`` (error/warning/note), a message, its location (file URI
 relative to the current directory, ``region.startLine`` when the finding has a line; for a
 PDF a location message and a logical location naming page and cell) and ``properties``
-with fields, expected/actual values, deviation and cause. A suppression written in the
+with fields, expected/actual values, deviation and cause. An acceptance written in the
 record becomes ``suppressions: [{"kind": "inSource", "justification": reason}]``. A file or
 record that cannot be read is a result of rule ``unreadable`` and a tool notification.
 
@@ -92,7 +92,7 @@ def _extra_descriptor(rule: str) -> dict[str, Any]:
                                             "checked."},
                 "help": {"text": "Fix the file so that it parses and follows the schema "
                                  "(`sheetlint schema`); the message names the field."},
-                "properties": {"kind": "input", "status": "stable"}}
+                "properties": {"kind": "input", "status": "established"}}
     return {"id": rule, "name": _pascal(rule), "shortDescription": {"text": rule}}
 
 
@@ -182,9 +182,9 @@ def payload(results: list[FileResult]) -> dict[str, Any]:
                         "source": x.source,
                     },
                 }
-                if x.suppressed is not None:
+                if x.accepted is not None:
                     result["suppressions"] = [{"kind": "inSource", "status": "accepted",
-                                               "justification": x.suppressed}]
+                                               "justification": x.accepted}]
                 sarif_results.append(result)
         for record_id, message in problems:
             sarif_results.append({
