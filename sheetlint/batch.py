@@ -64,6 +64,29 @@ def not_a_record(records: list[RawRecord]) -> str | None:
     return f"holds no machine record (top-level keys: {keys})"
 
 
+def foreign_yaml(path: str) -> str | None:
+    """The reason to skip a YAML file that our loader refused but whose top level is a mapping
+    with none of a record's keys (a CI workflow: its ``on:`` key reads as a boolean). Reads
+    only the top-level keys, as text, without building the document (no alias expansion)."""
+    if not path.lower().endswith((".yaml", ".yml")):
+        return None
+    try:
+        if os.path.getsize(path) > MAX_BYTES:
+            return None
+        import yaml
+
+        with open(path, encoding="utf-8") as handle:
+            node = yaml.compose(handle, Loader=yaml.BaseLoader)
+    except Exception:  # anything unreadable stays the loader's error
+        return None
+    if not isinstance(node, yaml.MappingNode) or not node.value:
+        return None
+    keys = [k.value for k, _ in node.value if isinstance(k, yaml.ScalarNode)]
+    if len(keys) != len(node.value) or any(k in RECORD_KEYS for k in keys):
+        return None
+    return f"holds no machine record (top-level keys: {', '.join(sorted(keys)[:4])})"
+
+
 def excluded(path: str, patterns: Iterable[str]) -> bool:
     """True when ``path`` matches one of the globs (``exclude`` / ``--exclude``): against its
     path relative to the current folder (``*`` crosses folders, ``**/`` may match none), and a
@@ -181,6 +204,9 @@ def _check_file(path: str, settings: Settings | None, max_bytes: int | None) -> 
     try:
         records = raw_records(path, max_bytes)
     except InputProblem as exc:
+        reason = foreign_yaml(path)
+        if reason is not None:
+            return FileResult(path, skipped=reason)
         return FileResult(path, str(exc))
     if not path.lower().endswith(".pdf"):
         reason = not_a_record(records)

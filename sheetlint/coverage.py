@@ -84,17 +84,20 @@ def input_sets(relations: Iterable[Any]) -> dict[str, tuple[tuple[str, ...], ...
     return out
 
 
-def coverage(known: Iterable[str], attributes: Mapping[str, Any], found_rules: Iterable[str],
-             sets: Mapping[str, tuple[tuple[str, ...], ...]],
+def coverage(known: Mapping[str, str | None], attributes: Mapping[str, Any],
+             found_rules: Iterable[str], sets: Mapping[str, tuple[tuple[str, ...], ...]],
              enabled: Any = None) -> dict[str, Any]:
     """``{"checked": [rules], "not_checked": {rule: [missing fields]}}``.
 
-    ``known``: the fields given or derived; ``attributes``: the sheet's non-physical values;
+    ``known``: each field given (None) or derived (the rule that derived it: a value a rule
+    derived itself does not let that rule check anything); ``attributes``: the sheet's
+    non-physical values;
     ``found_rules``: rules that produced a finding; ``enabled(rule)``: False for a rule left
     out by ``--only``/``--skip`` (such a rule is listed in neither part).
     """
-    have = set(known)
-    have.update(name for name, value in attributes.items() if value is not None)
+    have: dict[str, str | None] = {name: None for name, value in attributes.items()
+                                   if value is not None}
+    have.update(known)
     fired = set(found_rules)
     checked: list[str] = []
     not_checked: dict[str, list[str]] = {}
@@ -104,7 +107,8 @@ def coverage(known: Iterable[str], attributes: Mapping[str, Any], found_rules: I
         if rule in fired:
             checked.append(rule)
             continue
-        missing_sets = [[n for n in s if n not in have] for s in alternatives]
+        missing_sets = [[n for n in s if n not in have or have[n] == rule]
+                        for s in alternatives]
         fewest = min(missing_sets, key=len) if missing_sets else []
         if not fewest:
             checked.append(rule)
@@ -128,7 +132,10 @@ def sheet_coverage(sheet: Any, findings: Iterable[Any]) -> dict[str, Any]:
     if sets is None or _sets_cache.get("count") != len(all_relations()):
         sets = _sets_cache["sets"] = input_sets(all_relations())
         _sets_cache["count"] = len(all_relations())
-    known = [name for name, k in sheet.values.items() if k.origin != ESTIMATE]
+    from sheetlint.engine.core import GIVEN
+
+    known = {name: (None if k.origin == GIVEN else k.rule) for name, k in sheet.values.items()
+             if k.origin != ESTIMATE}
     settings = sheet.settings
     enabled = settings.enabled if settings.narrowed else None
     return coverage(known, sheet.attributes, (f.rule for f in findings), sets, enabled)
