@@ -106,7 +106,7 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
     odd_qualifiers: list[tuple[str, Measured]] = []
 
     def put(path: str, m: Measured | None, temperature: float | None = None) -> None:
-        if m is not None:
+        if m is not None and not m.derived:  # a value `derive` wrote is worked out again
             values[path] = _known(path, m, temperature)
             if m.unknown_qualifiers:
                 odd_qualifiers.append((path, m))
