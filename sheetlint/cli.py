@@ -239,22 +239,19 @@ def cmd_derive(args: argparse.Namespace) -> int:
     import os
 
     from sheetlint.completion import completed_document
+    from sheetlint.intake.records import InputProblem
 
-    if os.path.abspath(args.output) == os.path.abspath(args.path):
+    to_stdout = args.output == "-"
+    if not to_stdout and os.path.abspath(args.output) == os.path.abspath(args.path):
         print("sheetlint: derive never overwrites its input; choose another -o", file=sys.stderr)
         return 2
+    yaml_out = None if to_stdout else args.output.lower().endswith((".yaml", ".yml"))
     try:
-        text, errors = completed_document(args.path, args.include_estimates,
-                                          yaml_out=args.output.lower().endswith((".yaml",
-                                                                                 ".yml")))
-    except Exception as exc:  # InputProblem and friends: a message, never a traceback
-        from sheetlint.intake.records import InputProblem
-
-        if not isinstance(exc, InputProblem):
-            raise
+        text, errors = completed_document(args.path, args.include_estimates, yaml_out=yaml_out)
+    except InputProblem as exc:  # a message, never a traceback
         print(f"sheetlint: {exc}", file=sys.stderr)
         return 2
-    _write(text, args.output)
+    _write(text, None if to_stdout else args.output)
     for message in errors:
         print(f"sheetlint: {message}", file=sys.stderr)
     return 2 if errors else 0
