@@ -4,7 +4,8 @@ pint reads kVA as 1000 W and J as N·m (the same SI dimensions), so a dimension 
 an apparent power pass as a shaft power. IEC 60050-131 (IEV 131-11-41 apparent power, volt-
 ampere; 131-11-44 reactive power, var; entry numbers from memory) keeps VA and var for
 apparent and reactive power; the SI Brochure (9th ed., 2019, tables 4 and 5, from memory)
-names the joule for energy and the newton metre for moment of force. The refusal is a record error (exit 2), the message naming the field."""
+names the joule for energy and the newton metre for moment of force. The refusal is a record
+error (exit 2), the message naming the field."""
 
 from __future__ import annotations
 
