@@ -5,6 +5,7 @@ hook with ``language: system`` pointing at the installed ``sheetlint``."""
 from __future__ import annotations
 
 import os
+import re
 import shutil
 import subprocess
 import sys
@@ -202,3 +203,18 @@ def test_try_repo_repository_hook_checks_everything_once(
     output = result.stdout + result.stderr
     assert result.returncode == 0, output
     assert output.count("Checked ") == 1 and "4 records" in output
+
+
+def test_the_readme_local_snippet_works_as_written(tmp_path: Path):
+    # the README's `repo: local` configuration, copied verbatim (sheetlint is on PATH)
+    readme = (ROOT / "README.md").read_text(encoding="utf-8")
+    blocks = re.findall(r"```yaml\n(.*?)```", readme, re.S)
+    snippet = next(b for b in blocks if "repo: local" in b)
+    env = _env(tmp_path)
+    work = _motor_repository(tmp_path, env, copies=2)
+    (work / ".pre-commit-config.yaml").write_text(snippet, encoding="utf-8")
+    _run([GIT, "add", "."], work, env)
+    result = _run([PRE_COMMIT, "run", "--all-files"], work, env)
+    output = result.stdout + result.stderr
+    assert result.returncode == 0, output
+    assert "overspeed-emf" in output and output.count("Checked ") == 1
