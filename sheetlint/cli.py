@@ -115,7 +115,7 @@ def _batch_options(command: argparse.ArgumentParser) -> None:
                          help="settings file (default: the first sheetlint.toml, or "
                               "pyproject.toml with [tool.sheetlint], from here upwards)")
     command.add_argument("--no-settings", action="store_true",
-                         help="ignore settings files")
+                         help="use no settings file (defaults and the command line only)")
     command.add_argument("--no-progress", action="store_true",
                          help="never show progress on stderr (shown only on a terminal)")
     command.add_argument("--jobs", type=int, default=None,

@@ -1,4 +1,4 @@
-"""Standards relations: efficiency class, temperature rise, and the preview plausibility bands.
+"""Standards relations: efficiency class, temperature rise, and the plausibility bands on trial.
 
 Expected limits come from the published tables named beside each test (SI 2021/745 Schedule 16
 Tables 21-23, the same limits as Regulation (EU) 2019/1781 Annex I) or from IEC 60034-1 as quoted;
@@ -318,7 +318,7 @@ def test_estimate_resistance_gives_an_estimate() -> None:
     assert hot.estimate
 
 
-# --- preview plausibility bands -----------------------------------------------------------------
+# --- plausibility bands on trial ------------------------------------------------------------------
 def test_torque_per_rotor_volume_band_by_cooling_from_memory() -> None:
     # [M] Miller; Hendershot & Miller: fan-cooled up to about 50 kN*m/m^3, liquid up to 250
     values = {"rated.torque": Known(200.0, 0.005), "machine.rotor_diameter": Known(0.1, 0.005),

@@ -520,7 +520,7 @@ def _given_rows(sheet: Sheet | None) -> list[str]:
         if k.temperature is not None:
             extras.append(f"at {k.temperature - 273.15:.0f} °C")
         rows.append(f"<tr><td><code>{escape(name)}</code></td>"
-                    f"<td class=num>{escape(k.text or display(name, k.value))}</td>"
+                    f"<td class=num>{escape(units(k.text or display(name, k.value)))}</td>"
                     f"<td>{escape(', '.join(extras))}</td></tr>")
     return rows
 
