@@ -17,6 +17,9 @@ from __future__ import annotations
 from collections.abc import Iterable, Mapping
 from typing import Any
 
+from sheetlint.engine.core import ESTIMATE, GIVEN
+from sheetlint.relations.registry import all_relations
+
 #: alternative input sets per rule (any one complete set lets the rule check the rated point)
 NEEDS: Mapping[str, tuple[tuple[str, ...], ...]] = {
     "value-range": ((),),
@@ -124,24 +127,58 @@ def coverage_of(record: Any) -> dict[str, Any] | None:
 
 
 def sheet_coverage(sheet: Any, findings: Iterable[Any]) -> dict[str, Any]:
-    """Coverage of an engine sheet after the checks (estimates do not count as known)."""
-    from sheetlint.engine.core import ESTIMATE
-    from sheetlint.relations.registry import all_relations
+    """Coverage of an engine sheet after the checks (estimates do not count as known).
 
-    sets = _sets_cache.get("sets")
-    if sets is None or _sets_cache.get("count") != len(all_relations()):
-        sets = _sets_cache["sets"] = input_sets(all_relations())
-        _sets_cache["count"] = len(all_relations())
-    from sheetlint.engine.core import GIVEN
-
-    known = {name: (None if k.origin == GIVEN else k.rule) for name, k in sheet.values.items()
-             if k.origin != ESTIMATE}
+    Looks each field of the input sets up directly (no copy of the sheet's values): this runs
+    for every record, so it stays a small fraction of the engine's time."""
+    sets = _rule_sets()
+    values = sheet.values
+    attributes = sheet.attributes
     settings = sheet.settings
-    enabled = settings.enabled if settings.narrowed else None
-    return coverage(known, sheet.attributes, (f.rule for f in findings), sets, enabled)
+    narrowed = settings.narrowed
+    fired = {f.rule for f in findings}
+    checked: list[str] = []
+    not_checked: dict[str, list[str]] = {}
+    for rule, alternatives in sets:
+        if narrowed and not settings.enabled(rule):
+            continue
+        if rule in fired:
+            checked.append(rule)
+            continue
+        fewest: list[str] | None = None
+        for names in alternatives:
+            missing = []
+            for name in names:
+                known = values.get(name)
+                if known is not None:
+                    origin = known.origin
+                    if origin == GIVEN or (origin != ESTIMATE and known.rule != rule):
+                        continue
+                elif attributes.get(name) is not None:
+                    continue
+                missing.append(name)
+            if not missing:
+                fewest = missing
+                break
+            if fewest is None or len(missing) < len(fewest):
+                fewest = missing
+        if not fewest:
+            checked.append(rule)
+        else:
+            not_checked[rule] = fewest
+    return {"checked": checked, "not_checked": not_checked}
 
 
-_sets_cache: dict[str, Any] = {}
+_sets_cache: dict[int, tuple[tuple[str, tuple[tuple[str, ...], ...]], ...]] = {}
+
+
+def _rule_sets() -> tuple[tuple[str, tuple[tuple[str, ...], ...]], ...]:
+    """The registry's input sets, built once per registry size."""
+    relations = all_relations()
+    found = _sets_cache.get(len(relations))
+    if found is None:
+        found = _sets_cache[len(relations)] = tuple(input_sets(relations).items())
+    return found
 
 
 def missing_sentence(not_checked: Mapping[str, list[str]], limit: int = 3) -> str:
