@@ -169,6 +169,9 @@ def _check_batch(args: argparse.Namespace) -> tuple[list[Any], str] | int:
         return 2
     for warning in resolved.warnings:
         print(f"sheetlint: warning: {warning}", file=sys.stderr)
+    # coverage is shown in JSON and with --notes only: spare its cost elsewhere
+    resolved.settings.coverage = (getattr(args, "format", None) == "json"
+                                  or getattr(args, "notes", False))
     results_iter = check_paths(args.paths, resolved.settings, jobs=args.jobs,
                                time_limit=args.time_limit, max_bytes=args.max_file_size,
                                exclude=resolved.exclude)

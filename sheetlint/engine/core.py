@@ -193,6 +193,8 @@ class Settings:
     options: dict[str, dict[str, Any]] = field(default_factory=dict)
     #: rule -> severity that replaces the rule's own (``severity`` in the configuration)
     severity: dict[str, str] = field(default_factory=dict)
+    #: work out each record's coverage (JSON output, ``--notes``); about 5 % of engine time
+    coverage: bool = False
 
     def option(self, rule: str, name: str, default: Any) -> Any:
         return self.options.get(rule, _NO_OPTIONS).get(name, default)

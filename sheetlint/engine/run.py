@@ -164,7 +164,7 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
     findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))
     derived = {name: k for name, k in sheet.values.items() if k.origin != GIVEN}
     return RecordResult(record.id, None, findings, derived, sheet, index,
-                        sheet_coverage(sheet, findings))
+                        sheet_coverage(sheet, findings) if settings.coverage else None)
 
 
 def _checks(relation: Relation) -> bool:
