@@ -40,7 +40,7 @@ def render(results: list[FileResult], notes: bool = False, show_derived: bool = 
     for f in results:
         name = relative(f.path)
         if f.error:
-            lines.append(f"{name}: cannot read: {f.error}")
+            lines.append(f"{name}: cannot read: {_without_path(f.error, f.path)}")
             continue
         if f.skipped:
             if notes:
@@ -48,13 +48,18 @@ def render(results: list[FileResult], notes: bool = False, show_derived: bool = 
             continue
         for r in f.records:
             if r.error:
-                lines.append(f"{name}: cannot read record: {r.error}")
+                lines.append(f"{name}: cannot read record: {_without_path(r.error, f.path)}")
                 continue
             lines.extend(_record(name, r, notes, show_derived))
     s = summary(results)
     lines.append(_summary_line(s, notes))
     lines.append(SHORT_CAUTION)
     return "\n".join(lines)
+
+
+def _without_path(message: str, path: str) -> str:
+    """A message without the file name it starts with (the line names the file already)."""
+    return message.removeprefix(f"{path}: ")
 
 
 def _record(name: str, r: RecordResult, notes: bool, show_derived: bool) -> list[str]:
