@@ -16,7 +16,6 @@ Standard incorporating Errata 01, 2023.
 from __future__ import annotations
 
 import hashlib
-import inspect
 import json
 from pathlib import PurePath
 from typing import Any
@@ -46,6 +45,7 @@ def artifact_uri(path: str) -> str:
 def rule_descriptors() -> list[dict[str, Any]]:
     """``reportingDescriptor`` objects for every registered rule, sorted by id."""
     from sheetlint.relations.registry import all_relations
+    from sheetlint.rules_doc import rule_text
 
     grouped: dict[str, list[Any]] = {}
     for relation in all_relations():
@@ -54,12 +54,7 @@ def rule_descriptors() -> list[dict[str, Any]]:
     for rule, relations in sorted(grouped.items()):
         first = relations[0]
         equations = "; ".join(r.equation for r in relations if r.equation)
-        help_parts = []
-        for r in relations:
-            doc = inspect.cleandoc(type(r).__doc__ or "")
-            help_parts.append(f"{r.title}: {r.equation}\n\n{doc}".strip())
-        help_text = "\n\n".join(help_parts)
-        help_text += f"\n\nSeverity: {first.severity_policy}\nSource: {first.source}"
+        help_text = rule_text(rule) or first.title  # what `sheetlint rules RULE` prints
         out.append({
             "id": rule,
             "name": _pascal(rule),
