@@ -181,15 +181,28 @@ def _rule_sets() -> tuple[tuple[str, tuple[tuple[str, ...], ...]], ...]:
     return found
 
 
-def missing_sentence(not_checked: Mapping[str, list[str]], limit: int = 3) -> str:
-    """Plain words for the text report: "give circuit.ld, circuit.lq to check
-    dq-operating-point, pull-out-margin; ..." (the most useful first: fields that unlock most
-    rules)."""
+def rule_titles() -> dict[str, str]:
+    """Each rule's title (its first relation's), for plain sentences."""
+    titles: dict[str, str] = {}
+    for relation in all_relations():
+        titles.setdefault(relation.rule, relation.title)
+    return titles
+
+
+def missing_sentence(not_checked: Mapping[str, list[str]], limit: int = 3,
+                     titles: Mapping[str, str] | None = None) -> str:
+    """Plain words for the text report: "give circuit.ld and circuit.lq to check the dq model
+    at the rated point (dq-operating-point); ..." (the most useful first: the fewest fields
+    that unlock the most rules)."""
     by_fields: dict[tuple[str, ...], list[str]] = {}
     for rule, fields in not_checked.items():
         by_fields.setdefault(tuple(fields), []).append(rule)
     ordered = sorted(by_fields.items(), key=lambda item: (len(item[0]), -len(item[1])))
-    parts = [f"give {' and '.join(fields)} to check {', '.join(rules)}"
+    def named(rule: str) -> str:
+        title = (titles or {}).get(rule)
+        return f"{title[:1].lower()}{title[1:]} ({rule})" if title else rule
+
+    parts = [f"give {' and '.join(fields)} to check {', '.join(named(r) for r in rules)}"
              for fields, rules in ordered[:limit]]
     if len(ordered) > limit:
         parts.append(f"{len(ordered) - limit} more (see --format json)")

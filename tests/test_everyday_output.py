@@ -87,7 +87,7 @@ def test_a_record_with_two_values_says_what_would_let_more_rules_run(
     assert coverage["not_checked"]["power-torque-speed"] == ["rated.torque"]
     assert {"circuit.ld", "circuit.lq"} <= set(coverage["not_checked"]["dq-operating-point"])
     _, text, _ = _check(capsys, str(path), "--notes")
-    assert "give rated.torque to check power-torque-speed" in text
+    assert "give rated.torque to check power, torque and speed (power-torque-speed)" in text
     assert ": ok" not in text
 
 

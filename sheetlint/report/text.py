@@ -14,7 +14,7 @@ import re
 
 from sheetlint.batch import FileResult, relative
 from sheetlint.cautions import FINDING_CAUTION, SAFETY_RULES, SHORT_CAUTION, safety_pointer
-from sheetlint.coverage import missing_sentence
+from sheetlint.coverage import missing_sentence, rule_titles
 from sheetlint.engine.core import Finding
 from sheetlint.engine.run import RecordResult, derived_payload
 from sheetlint.report.json_report import summary
@@ -113,7 +113,7 @@ def _coverage_line(coverage: dict[str, object]) -> str:
     not_checked = coverage.get("not_checked") or {}
     text = f"{INDENT}coverage: {_plural(len(checked), 'rule')} checked"  # type: ignore[arg-type]
     if not_checked:
-        text += f"; {missing_sentence(not_checked)}"  # type: ignore[arg-type]
+        text += f"; {missing_sentence(not_checked, titles=rule_titles())}"  # type: ignore[arg-type]
     return text
 
 
