@@ -159,6 +159,24 @@ def _registry() -> Any:
     return ureg
 
 
+#: units of the right dimension for a kind but of another quantity: refused with the reason
+WRONG_QUANTITY: dict[str, dict[str, str]] = {
+    "power": {
+        **dict.fromkeys(
+            ("va", "kva", "mva", "v*a", "kv*a"),
+            "an apparent power (volt-amperes, S = √3·U·I), not a real power: a rated power is "
+            "the shaft output in W, kW or hp (give the converter's kVA rating elsewhere)"),
+        **dict.fromkeys(
+            ("var", "kvar", "mvar"),
+            "a reactive power, not a real power: a rated power is the shaft output in W, kW "
+            "or hp"),
+    },
+    "torque": dict.fromkeys(
+        ("j", "kj", "mj", "wh", "kwh", "cal", "kcal"),
+        "an energy, not a torque (the same dimension): give the torque in N*m"),
+}
+
+
 @cache
 def unit_factor(unit: str, kind: str) -> tuple[float, float]:
     """(factor, offset) such that SI = value·factor + offset, for ``unit`` on a field of ``kind``.
@@ -168,6 +186,11 @@ def unit_factor(unit: str, kind: str) -> tuple[float, float]:
     """
     norm = normalize_unit(unit)
     low = norm.lower()
+    wrong = WRONG_QUANTITY.get(kind)
+    if wrong is not None:
+        reason = wrong.get(low.replace("·", "*").replace(" ", ""))
+        if reason is not None:
+            raise UnitProblem(f"unit '{unit}' is {reason}")
     if kind in RESTRICTED:
         table = RESTRICTED[kind]
         if low in table:

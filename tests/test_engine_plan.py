@@ -132,7 +132,7 @@ def test_a_rule_selection_leaves_the_selected_rules_findings_unchanged(topology,
     if slip is not None:
         assert any(f.severity != "info" for f in full.findings)
     for rule in RULES:
-        for narrowed in (Settings(select=frozenset({rule})), Settings(ignore=frozenset({rule}))):
+        for narrowed in (Settings(only=frozenset({rule})), Settings(skip=frozenset({rule}))):
             part = engine_run.run_engine(MachineRecord.model_validate(copy.deepcopy(data)),
                                          narrowed)
             assert all(narrowed.enabled(f.rule) or f.rule == "unreadable"

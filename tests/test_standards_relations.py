@@ -1,4 +1,4 @@
-"""Standards relations: efficiency class, temperature rise, and the preview plausibility bands.
+"""Standards relations: efficiency class, temperature rise, and the plausibility bands on trial.
 
 Expected limits come from the published tables named beside each test (SI 2021/745 Schedule 16
 Tables 21-23, the same limits as Regulation (EU) 2019/1781 Annex I) or from IEC 60034-1 as quoted;
@@ -338,7 +338,7 @@ def test_estimate_resistance_gives_an_estimate() -> None:
     assert hot.estimate
 
 
-# --- preview plausibility bands -----------------------------------------------------------------
+# --- plausibility bands on trial ------------------------------------------------------------------
 def test_torque_per_rotor_volume_band_by_cooling_from_memory() -> None:
     # [M] Miller; Hendershot & Miller: fan-cooled up to about 50 kN*m/m^3, liquid up to 250
     values = {"rated.torque": Known(200.0, 0.005), "machine.rotor_diameter": Known(0.1, 0.005),
@@ -402,9 +402,9 @@ def test_short_time_rating_held_for_hours_is_a_warning() -> None:
 
 # --- registry and a consistent sheet ------------------------------------------------------------
 def test_rules_are_registered_with_their_order_and_status() -> None:
-    expected = {"temperature-rise": ("stable", 20), "efficiency-class": ("stable", 80),
-                "rotor-torque-density": ("preview", 80), "specific-losses": ("preview", 80),
-                "overload-ratio": ("preview", 80), "short-time-rating": ("preview", 80)}
+    expected = {"temperature-rise": ("established", 20), "efficiency-class": ("established", 80),
+                "rotor-torque-density": ("trial", 80), "specific-losses": ("trial", 80),
+                "overload-ratio": ("trial", 80), "short-time-rating": ("trial", 80)}
     for rule, (status, order) in expected.items():
         relation = relation_for(rule)
         assert relation is not None and (relation.status, relation.order) == (status, order)

@@ -106,7 +106,7 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
     odd_qualifiers: list[tuple[str, Measured]] = []
 
     def put(path: str, m: Measured | None, temperature: float | None = None) -> None:
-        if m is not None:
+        if m is not None and not m.derived:  # a value `derive` wrote is worked out again
             values[path] = _known(path, m, temperature)
             if m.unknown_qualifiers:
                 odd_qualifiers.append((path, m))
@@ -190,7 +190,7 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
         if peak_torque is not None else None,
         "limits.peak_current.duration": peak_current.duration
         if peak_current is not None else None,
-        "suppress": [(s.rule, s.reason, s.field) for s in fields_of["suppress"]],
+        "accepted": [(a.rule, a.reason, tuple(a.fields)) for a in fields_of["accepted"]],
     }
     sheet = Sheet(record.id, values, attributes, settings, locate)
     notes.extend(_unknown_field_notes(record, fields_of, sheet, odd_qualifiers))

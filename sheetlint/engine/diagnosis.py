@@ -18,7 +18,14 @@ from collections.abc import Callable
 from dataclasses import dataclass
 
 from sheetlint.engine.causes import Slip, readings
-from sheetlint.engine.core import GIVEN, Finding, Known, Sheet, own_sensitivity
+from sheetlint.engine.core import (
+    GIVEN,
+    Finding,
+    Known,
+    Sheet,
+    number_entries,
+    own_sensitivity,
+)
 from sheetlint.fields import display
 from sheetlint.relations.registry import relation_for
 
@@ -185,8 +192,9 @@ def _name_cause(sheet: Sheet, primary: Finding, slips: list[Slip]) -> None:
         primary.expected = {first.field: display(first.field, first.corrected(known.value))}
         primary.actual = {first.field: known.text or display(first.field, known.value)}
         primary.deviation = first.factor - 1.0
-        primary.expected_si = {first.field: first.corrected(known.value)}
-        primary.actual_si = {first.field: known.value}
+        primary.expected_values = number_entries({first.field: first.corrected(known.value)},
+                                                 None)
+        primary.actual_values = number_entries({first.field: known.value}, None)
         if all(s.basis for s in slips) and not known.basis_stated:
             primary.severity = "warning"
             primary.message += (f"; the sheet does not state the basis of {first.field}: "

@@ -12,6 +12,7 @@ from typing import Any
 
 from pydantic import ValidationError
 
+from sheetlint.coverage import sheet_coverage
 from sheetlint.engine.build import build_sheet
 from sheetlint.engine.core import (
     DERIVED,
@@ -47,6 +48,8 @@ class RecordResult:
     derived: dict[str, Known] = field(default_factory=dict)
     sheet: Sheet | None = None
     index: int | None = None
+    #: which rules checked the record and which fields the others miss (sheetlint.coverage)
+    coverage: dict[str, Any] | None = None
 
 
 def validation_message(exc: ValidationError, data: Any) -> str:
@@ -151,10 +154,13 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
     _estimate(sheet, relations_with("estimate"))
     if settings.narrowed:
         findings = [f for f in findings if settings.enabled(f.rule) or f.rule == "unreadable"]
-    _apply_suppressions(sheet, findings)
+    _apply_acceptances(sheet, findings)
+    if settings.severity:
+        _apply_severities(settings.severity, findings)
     findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))
     derived = {name: k for name, k in sheet.values.items() if k.origin != GIVEN}
-    return RecordResult(record.id, None, findings, derived, sheet, index)
+    return RecordResult(record.id, None, findings, derived, sheet, index,
+                        sheet_coverage(sheet, findings) if settings.coverage else None)
 
 
 def check_sheet(sheet: Sheet, settings: Settings) -> list[Finding]:
@@ -166,7 +172,7 @@ def check_sheet(sheet: Sheet, settings: Settings) -> list[Finding]:
     derive(sheet, relations)
     evaluations: list[Evaluation] = []
     checked = relations_where(
-        ("checked", settings.select, settings.ignore),
+        ("checked", settings.only, settings.skip),
         lambda r: _checks(r) and settings.enabled(r.rule))
     for relation in checked:
         check_relation(relation, sheet, findings, evaluations)
@@ -301,22 +307,33 @@ def _derive_plan(relations: tuple[Any, ...]) -> DerivePlan:
                       tuple(i for i, step in enumerate(steps) if step[3]))
 
 
-def _apply_suppressions(sheet: Sheet, findings: list[Finding]) -> None:
-    entries = sheet.attr("suppress") or []
+def _apply_acceptances(sheet: Sheet, findings: list[Finding]) -> None:
+    """Mark the findings the record's ``accepted`` list covers (rule, and every listed field
+    among the finding's fields) with the reason; an entry that covers none is stale."""
+    entries = sheet.attr("accepted") or []
     if not entries:
         return
     used: set[int] = set()
     for f in findings:
-        for i, (rule, reason, field_name) in enumerate(entries):
-            if rule == f.rule and (field_name is None or field_name in f.fields):
-                f.suppressed = reason
+        for i, (rule, reason, fields) in enumerate(entries):
+            if rule == f.rule and all(name in f.fields for name in fields):
+                f.accepted = reason
                 used.add(i)
                 break
-    marker = relation_for("unused-suppression")
-    for i, (rule, _reason, _field) in enumerate(entries):
+    marker = relation_for("stale-acceptance")
+    for i, (rule, _reason, fields) in enumerate(entries):
         if i not in used:
-            findings.append(sheet.finding(marker, "info", f"suppression of '{rule}' no longer "
-                                          "matches any finding; remove it", ("suppress",)))
+            what = f"'{rule}'" + (f" on {', '.join(fields)}" if fields else "")
+            findings.append(sheet.finding(marker, "info", f"the acceptance of {what} no longer "
+                                          "matches any finding; remove it", ("accepted",)))
+
+
+def _apply_severities(levels: dict[str, str], findings: list[Finding]) -> None:
+    """The configuration's ``severity`` table: each listed rule's findings take its level."""
+    for f in findings:
+        level = levels.get(f.rule)
+        if level is not None:
+            f.severity = level  # type: ignore[assignment]
 
 
 def derived_payload(derived: dict[str, Known]) -> dict[str, Any]:

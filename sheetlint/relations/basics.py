@@ -207,21 +207,25 @@ class UnknownFields(Relation):
 
 
 @register
-class UnusedSuppression(Relation):
-    """A suppression in the record that no longer matches any finding.
+class StaleAcceptance(Relation):
+    """An acceptance in the record that no longer matches any finding.
 
-    What it checks: every entry of the record's ``suppress`` list (rule id, optional field,
-    mandatory reason) still covers a finding. One that covers nothing has outlived the problem
-    it documented (the data were corrected, or the rule changed) and should be removed, so that
-    a later regression is not silenced by it.
+    What it checks
+        Every entry of the record's ``accepted`` list (rule id, the fields it concerns, a
+        mandatory reason) still covers a finding.
 
-    Fix: delete the entry.
+    What it tells you
+        An entry that covers nothing has outlived the deviation it documented (the data were
+        corrected, or the rule changed). Left in place it would hide a later regression.
+
+    What to do
+        Delete the entry.
     """
 
-    rule = "unused-suppression"
-    title = "suppressions that match nothing"
-    equation = "each suppression covers ≥ 1 finding"
+    rule = "stale-acceptance"
+    title = "acceptances that match nothing"
+    equation = "each acceptance covers ≥ 1 finding"
     kind = "bound"
     severity_policy = "info"
-    source = "sheetlint data contract (suppress)"
+    source = "sheetlint data contract (accepted)"
     order = 0

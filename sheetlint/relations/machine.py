@@ -483,7 +483,7 @@ class DqOperatingPoint(Relation):
     severity_policy = ("warning outside the saturation band; error when the stated current "
                        "cannot make rated torque with 25 % to spare (given inputs only)")
     source = DQ_SOURCE
-    status = "stable"
+    status = "established"
     order = 72
     options = {
         "lq_saturation": RuleOption("number", "0.30", "fall of L_q at rated load by "
@@ -1028,7 +1028,7 @@ class PullOutMargin(Relation):
     kind = "band"
     severity_policy = "warning when T_po/T_rated < min_ratio"
     source = DQ_SOURCE + "; IEC 60034-1 (pull-out torque of synchronous motors)"
-    status = "preview"
+    status = "trial"
     order = 76
     options = {"min_ratio": RuleOption(
         "number", "1.35", "least pull-out torque over rated torque at rated voltage (U/f)")}
@@ -1098,7 +1098,7 @@ class ShortCircuitCurrent(Relation):
     kind = "safety"
     severity_policy = "warning when ψ/L_d exceeds the peak (or rated) current"
     source = "Soong & Miller, IEE Proc. EPA 141(6), 1994; " + DQ_SOURCE
-    status = "preview"
+    status = "trial"
     order = 77
 
     @_guarded

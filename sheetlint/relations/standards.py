@@ -2,7 +2,7 @@
 
 The tables behind them live in :mod:`sheetlint.standards` (data files with their sources).
 The plausibility bands (``rotor-torque-density``, ``specific-losses``, ``overload-ratio``,
-``short-time-rating``) are from memory and preview: they raise at most a warning.
+``short-time-rating``) are from memory and on trial: they raise at most a warning.
 """
 
 from __future__ import annotations
@@ -121,7 +121,7 @@ class TemperatureRise(Relation):
                        "limit or its correction is approximate or beyond the rules; info when "
                        "no limit is known")
     source = TEMPERATURE_RISE_SOURCE
-    status = "stable"
+    status = "established"
     order = 20
     derive_inputs = ("circuit.resistance", "circuit.resistance_hot", "rated.temperature_rise",
                      "machine.ambient", "rated.magnet_temperature")
@@ -327,7 +327,7 @@ class EfficiencyClass(Relation):
                        "below the class minimum; warning for the converter-fed approximation "
                        "and IE5; info when out of scope or borderline")
     source = LINE_OPERATED_SOURCE
-    status = "stable"
+    status = "established"
     order = 80
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
@@ -522,7 +522,7 @@ class RotorTorqueDensity(Relation):
     kind = "band"
     severity_policy = "warning outside the band (approximate bands); never an error"
     source = SIZING_SOURCE
-    status = "preview"
+    status = "trial"
     order = 80
     options = {"band_knm_per_m3": RuleOption(
         "band", "by cooling group (see above)", "usual torque per rotor volume, kN·m/m³")}
@@ -574,7 +574,7 @@ class SpecificLosses(Relation):
     kind = "band"
     severity_policy = "warning above the bound (approximate bound); never an error"
     source = "common practice (approximate bounds)"
-    status = "preview"
+    status = "trial"
     order = 80
     options = {"upper_w_per_kg": RuleOption(
         "number", "by cooling group (see above)", "highest usual rated losses per kg of "
@@ -640,7 +640,7 @@ class OverloadRatio(Relation):
     severity_policy = ("error when a peak is below its rated value; info outside the usual band "
                        "(approximate), warning more than twice beyond it")
     source = "common practice (approximate bands)"
-    status = "preview"
+    status = "trial"
     order = 80
     options = {
         "torque_band": RuleOption("band", "from the sizing table (see above)",
@@ -719,7 +719,7 @@ class ShortTimeRating(Relation):
     kind = "band"
     severity_policy = "warning (approximate); never an error"
     source = "IEC 60034-1:2010 duty types; common practice"
-    status = "preview"
+    status = "trial"
     order = 80
     options = {"continuous_after_s": RuleOption(
         "number", "from the sizing table (see above)", "a peak lasting this long, in s, is "

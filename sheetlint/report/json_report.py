@@ -7,21 +7,25 @@ from typing import Any
 
 from sheetlint import __version__
 from sheetlint.batch import FileResult
+from sheetlint.coverage import coverage_of
 from sheetlint.engine.run import derived_payload
 
 
 def summary(results: list[FileResult]) -> dict[str, int]:
     counts = {"files": len(results), "records": 0, "error": 0, "warning": 0, "info": 0}
+    skipped = sum(1 for f in results if f.skipped)
+    if skipped:
+        counts["skipped"] = skipped
     for f in results:
         counts["records"] += len(f.records)
         for r in f.records:
             for finding in r.findings:
-                if finding.suppressed is None:
+                if finding.accepted is None:
                     counts[finding.severity] += 1
-    suppressed = sum(1 for f in results for r in f.records for x in r.findings
-                     if x.suppressed is not None)
-    if suppressed:
-        counts["suppressed"] = suppressed
+    accepted = sum(1 for f in results for r in f.records for x in r.findings
+                   if x.accepted is not None)
+    if accepted:
+        counts["accepted"] = accepted
     return counts
 
 
@@ -31,8 +35,10 @@ def payload(results: list[FileResult]) -> dict[str, Any]:
         "version": __version__,
         "files": [
             {"path": f.path, "error": f.error,
+             **({"skipped": f.skipped} if f.skipped else {}),
              "records": [{"id": r.id, "error": r.error,
                           "findings": [x.to_dict() for x in r.findings],
+                          "coverage": coverage_of(r),
                           "derived": derived_payload(r.derived)} for r in f.records]}
             for f in results
         ],
