@@ -129,6 +129,8 @@ def _range_test(path: str) -> Callable[[float], str | None]:
         return _magnet_temperature if "magnet_temperature" in path else _temperature
     if path == "machine.altitude" or path.startswith("rated.losses."):
         return _not_negative
+    if path.startswith("points[") and path.endswith((".speed", ".frequency", ".power")):
+        return _not_negative  # a point at 0 rpm is a standstill (stall) point (DESIGN.md)
     if kind == "temperature_difference":
         return _not_negative
     return _magnitude
