@@ -6,5 +6,6 @@ from sheetlint.relations import (  # noqa: F401
     emf,
     machine,
     mechanics,
+    servo,
     standards,
 )
