@@ -41,7 +41,7 @@ KE_PER_VKRPM = 1 / (1000 * RPM)  # V·s/rad per V/krpm
 
 def derived(relation: type, values: dict[str, Known], field: str) -> float:
     """The value ``relation`` derives for ``field`` from the other fields of a sheet."""
-    sheet = Sheet("t", values, {})
+    sheet = Sheet("t", values, {"dynamics.stated": True})
     found = [d for d in relation().derive(sheet) if d.field == field]
     assert len(found) == 1, found
     return found[0].value

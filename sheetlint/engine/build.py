@@ -188,8 +188,12 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
         put("limits.demagnetisation_current", demagnetisation,
             demagnetisation.magnet_temperature)
     dynamics_fields = vars(fields_of["dynamics"])
+    servo_sheet = False
     for name, path in _DYNAMICS_FIELDS:
-        put(path, dynamics_fields[name])
+        m = dynamics_fields[name]
+        if m is not None:
+            put(path, m)
+            servo_sheet = True
     supply_fields = vars(fields_of["supply"])
     put("supply.mains_voltage", supply_fields["mains_voltage"])
     put("supply.dc_link_voltage", supply_fields["dc_link_voltage"])
@@ -218,6 +222,7 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
         if peak_torque is not None else None,
         "limits.peak_current.duration": peak_current.duration
         if peak_current is not None else None,
+        "dynamics.stated": servo_sheet,
         "limits.no_load_speed.supply_kind": supply_kind(no_load.extras.get("supply"))
         if no_load is not None else None,
         "suppress": [(s.rule, s.reason, s.field) for s in fields_of["suppress"]],

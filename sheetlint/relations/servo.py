@@ -21,6 +21,7 @@ twice the phase values, so L_line/R_line = L_phase/R_phase; the copper loss is
 
 from __future__ import annotations
 
+import copy
 import math
 from collections.abc import Iterator
 
@@ -28,7 +29,13 @@ from sheetlint.cautions import FINDING_CAUTION as CAUTION
 from sheetlint.engine.core import Finding, Relation, RuleOption, Sheet
 from sheetlint.engine.monomial import Evaluation, Monomial
 from sheetlint.physics.dq import RPM, SQRT2
-from sheetlint.relations.machine import DQ_SOURCE, _guarded, _join, model_inputs
+from sheetlint.relations.machine import (
+    DQ_SOURCE,
+    _flux_linkage,
+    _guarded,
+    _join,
+    model_inputs,
+)
 from sheetlint.relations.registry import register
 from sheetlint.units import ROOM_TEMPERATURE as ROOM
 
@@ -136,6 +143,15 @@ class _ServoMonomial(Monomial):
         return finding
 
 
+class _DynamicsIdentity(_ServoMonomial):
+    """τe, Km, τm: checked, and derived both ways, on sheets that state a ``dynamics.*``
+    field (servo catalogues); on other sheets they would only add derived values nobody
+    printed."""
+
+    def applies(self, sheet: Sheet) -> bool:
+        return bool(sheet.attributes.get("dynamics.stated"))
+
+
 def _band_constant(band: tuple[float, float]) -> tuple[float, float]:
     """(geometric centre, half log width) of a band: a band as a monomial's C and allowance."""
     low, high = band
@@ -144,7 +160,7 @@ def _band_constant(band: tuple[float, float]) -> tuple[float, float]:
 
 # --- servo-constants ---------------------------------------------------------------------------
 @register
-class ElectricalTimeConstant(_ServoMonomial):
+class ElectricalTimeConstant(_DynamicsIdentity):
     """Servo catalogue constants: time constants, motor constant, no-load speed, standstill
     and peak torque per ampere against the winding data and Kt.
 
@@ -210,7 +226,7 @@ class ElectricalTimeConstant(_ServoMonomial):
 
 
 @register
-class MotorConstant(_ServoMonomial):
+class MotorConstant(_DynamicsIdentity):
     """Motor constant Km = T/√(copper loss) = Kt/√(3·R_phase) for Kt per rms ampere."""
 
     title = "motor constant Km = Kt/√(3·R_phase)"
@@ -230,7 +246,7 @@ class MotorConstant(_ServoMonomial):
 
 
 @register
-class MechanicalTimeConstant(_ServoMonomial):
+class MechanicalTimeConstant(_DynamicsIdentity):
     """Mechanical time constant τm = J/Km² = 3·J·R_phase/Kt² (rotor inertia alone)."""
 
     title = "mechanical time constant τm = 3·J·R_phase/Kt²"
@@ -344,11 +360,20 @@ class StandstillTorquePerAmpere(_ServoMonomial):
     per_point = True
     derive_fields = ()
 
-    def applies(self, sheet: Sheet) -> bool:
-        if self.prefix == "rated.":
-            return False
-        speed = sheet.values.get(self.at("rated.speed"))
-        return speed is not None and speed.value == 0.0
+    def variants(self, sheet: Sheet) -> list[Monomial]:
+        """One copy per listed point at 0 rpm (the rated point never is one)."""
+        count = sheet.attributes.get("points.count", 0)
+        if not count:
+            return []
+        get = sheet.values.get
+        out: list[Monomial] = []
+        for i in range(count):
+            speed = get(f"points[{i}].speed")
+            if speed is not None and speed.value == 0.0:
+                clone = copy.copy(self)
+                clone.prefix = f"points[{i}]."
+                out.append(clone)
+        return out
 
     def allowance(self, sheet: Sheet) -> float:
         return float(sheet.option(self.rule, "standstill_band", STANDSTILL_TORQUE_BAND))
@@ -493,13 +518,21 @@ class ShortCircuitCurrent(Relation):
 
     @_guarded
     def check(self, sheet: Sheet) -> Iterator[Finding]:
-        inputs = model_inputs(sheet, self.rule, "cold")
+        # the hot model inputs other rules share (p, L_d, L_q); ψ itself cold
+        inputs = model_inputs(sheet, self.rule)
         if inputs is None:
             return
         machine = inputs.machine
+        cold = _flux_linkage(sheet, machine.pole_pairs, "cold")
+        if cold is None or not cold[0] > 0.0:
+            return
+        psi, cold_field, cold_note = cold[0], cold[1], cold[2]
         values = sheet.values
-        notes = list(inputs.notes)
-        fields = [f for f in inputs.fields if f != "circuit.resistance_hot"]
+        notes = [n for n in inputs.notes if n.startswith("only L_")]
+        if cold_note:
+            notes.insert(0, cold_note)
+        fields = [cold_field if f == inputs.flux_field else f for f in inputs.fields
+                  if f != "circuit.resistance_hot"]
         cold_r = values.get("circuit.resistance")
         if cold_r is not None and cold_r.value > 0.0:
             resistance = cold_r.value
@@ -509,13 +542,13 @@ class ShortCircuitCurrent(Relation):
         else:
             resistance = 0.0
             notes.append("no resistance given: the high-speed value ψ/L_d")
-        limit_peak = machine.flux_linkage / machine.ld
+        limit_peak = psi / machine.ld
         named = highest_named_speed(sheet)
         if named is None:
             peak, at = limit_peak, "at high speed (no speed named on the sheet)"
         else:
             speed, speed_field = named
-            peak = steady_short_circuit_current(machine.flux_linkage, machine.ld, machine.lq,
+            peak = steady_short_circuit_current(psi, machine.ld, machine.lq,
                                                 resistance, machine.pole_pairs * speed)
             at = f"at {speed / RPM:.0f} r/min ({speed_field})"
             fields.insert(0, speed_field)
