@@ -238,3 +238,22 @@ def test_a_time_constant_in_s_is_an_error_on_its_field():
     hits = servo_findings(data)
     assert hits and hits[0].severity == "error"
     assert hits[0].fields[0] == "dynamics.electrical_time_constant"
+
+
+def test_a_supply_not_marked_dc_or_ac_is_read_both_ways():
+    # 540.19 V unmarked: as DC the ideal is 7446 r/min, as AC line rms 10530 r/min
+    # (REFERENCES.md §8 vector); a speed near either passes, one far from both does not
+    base = {"id": "N0 (invented)", "emf": {"constant": "51.3 V/krpm"}}
+    for speed, clean in ((7100, True), (10050, True), (8600, False)):
+        data = dict(base, limits={"no_load_speed": {"value": speed, "unit": "rpm",
+                                                    "supply": "540.19 V"}})
+        assert (servo_findings(data) == []) is clean, speed
+
+
+def test_a_miss_within_twice_the_tolerance_is_a_warning_beyond_it_an_error():
+    # DESIGN.md Judgement 4. τe tolerance here: 3 % allowance + digits of 2.4 Ω (2 %),
+    # 9.6 mH (0.5 %) and the τe itself; 4.4 ms is +10 % (within twice), 6.0 ms +50 %
+    near = servo_findings(servo_record(dynamics__electrical_time_constant="4.4 ms"))
+    far = servo_findings(servo_record(dynamics__electrical_time_constant="6.0 ms"))
+    assert [f.severity for f in near] == ["warning"]
+    assert [f.severity for f in far] == ["error"]

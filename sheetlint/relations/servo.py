@@ -127,6 +127,7 @@ class _ServoMonomial(Monomial):
     rule = RULE
     source = SERVO_SOURCE
     kind = "model"  # identities (τe, Km, τm) and model bands share the rule
+    status = "preview"  # new: its bands are common practice, not yet tried on a corpus
     order = 30
 
     def severity(self, sheet: Sheet, evaluation: Evaluation) -> str:
@@ -180,8 +181,9 @@ class ElectricalTimeConstant(_DynamicsIdentity):
     it states (a DC voltage: U_dc/(√2·Ke); an AC line voltage: U/Ke; else the sheet's DC link
     or mains); the torque per ampere of a standstill point (a point at 0 rpm) against Kt,
     ± 5 %; the peak torque against Kt·I_peak within the saturation band 0.75 … 1.0. τe, Km
-    and τm are identities: a missing one is derived from the others, both ways. The no-load
-    speed, standstill and peak checks are model bands: they derive nothing.
+    and τm are identities, checked on sheets that state a ``dynamics.*`` field: a missing one
+    is derived from the others, both ways (L or R from τe, Kt from Km, J from τm). The
+    no-load speed, standstill and peak checks are model bands: they derive nothing.
 
     Why it matters: servo drives are tuned from these constants (the current loop from τe,
     the speed loop from τm and J); a time constant off by 1000 or by 2 detunes them.
