@@ -178,8 +178,19 @@ def spec_for(path: str) -> FieldSpec | None:
     return None
 
 
+#: fields shown in a unit of their own rather than their kind's: path -> (unit, SI per unit)
+DISPLAY_OVERRIDES: dict[str, tuple[str, float]] = {
+    "dynamics.electrical_time_constant": ("ms", 1e-3),
+    "dynamics.mechanical_time_constant": ("ms", 1e-3),
+    "dynamics.thermal_time_constant": ("min", 60.0),
+}
+
+
 def display_quantity(path: str, si_value: float, celsius: str = "degC") -> tuple[float, str]:
     """An SI value of ``path`` in its display unit: (value, unit); temperatures in ``celsius``."""
+    override = DISPLAY_OVERRIDES.get(path)
+    if override is not None:
+        return si_value / override[1], override[0]
     spec = spec_for(path)
     kind = KINDS[spec.kind] if spec else KINDS["ratio"]
     if kind.name == "temperature":

@@ -43,7 +43,11 @@ def printed(value: float, digits: int = 2) -> float:
 
 
 def number(value: float, digits: int = 2) -> str:
-    return f"{printed(value, digits):g}"
+    """The printed value as text, keeping a significant trailing zero (``4.0``)."""
+    rounded = printed(value, digits)
+    if abs(rounded) >= 10 ** (digits - 1):
+        return f"{rounded:.0f}"
+    return f"{rounded:#.{digits}g}"
 
 
 def record(motor: tuple) -> dict:
