@@ -139,6 +139,7 @@ _FAST: dict[str, tuple[str, float]] = {
     "oz-in": ("torque", 7.061551814e-3),
     "V*DC": ("voltage", 1.0), "V*dc": ("voltage", 1.0), "Vac": ("voltage", 1.0),
     "VAC": ("voltage", 1.0), "V*AC": ("voltage", 1.0), "V*ac": ("voltage", 1.0),
+    "V*rms": ("voltage", 1.0), "V*RMS": ("voltage", 1.0),
     "in": ("length", 0.0254), "ft": ("length", 0.3048), "um": ("length", 1e-6),
 }
 #: spellings in the wrong case that are unambiguous on a datasheet (``KW`` is never kelvin-watt)

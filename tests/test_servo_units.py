@@ -31,6 +31,7 @@ OZF_IN = LBF_IN / 16
     ("72 oz*in/√W", "motor_constant", 72 * OZF_IN),
     ("8.5 lb*in/A", "torque_constant", 8.5 * LBF_IN),
     ("560 V DC", "voltage", 560.0),
+    ("400 V rms", "voltage", 400.0),
 ])
 def test_servo_units_convert_by_nist_sp_811_factors(text, kind, si):
     assert read_value(text, None, kind, False).value == pytest.approx(si, rel=2e-6)
@@ -57,3 +58,15 @@ def test_servo_fields_are_known_and_bad_values_are_messages_not_tracebacks():
     bad = dict(data, dynamics={"motor_constant": "0.5 N*m/A"})
     result = run(bad)
     assert result.error and "dynamics.motor_constant" in result.error
+
+
+def test_the_supply_mark_decides_the_no_load_reading():
+    from sheetlint.engine.build import supply_kind
+    from sheetlint.model import Measured
+
+    def kind(text: str) -> str | None:
+        return supply_kind(Measured(read_value(text, None, "voltage", True)))
+
+    assert [kind(t) for t in ("560 V DC", "560 VDC", "560 Vdc", "400 V AC", "400 Vac",
+                              "400 V rms", "400 V")] == ["dc", "dc", "dc", "ac", "ac", "ac",
+                                                           None]
