@@ -299,7 +299,7 @@ class NoLoadSpeed(_ServoMonomial):
     derive_fields = ()
 
     def applies(self, sheet: Sheet) -> bool:
-        return _supply(sheet) is not None
+        return "limits.no_load_speed" in sheet.values and _supply(sheet) is not None
 
     def _band(self, sheet: Sheet) -> tuple[float, float]:
         return _band_constant(tuple(sheet.option(self.rule, "no_load_band",
