@@ -105,3 +105,26 @@ def test_a_cold_lowest_ambient_raises_the_current_over_the_20_degree_value():
            "machine.ambient.min": Known(253.15)})))
     assert f"{expected_rms() * 1.044:.3g}" in cold[0].message
     assert f"{expected_rms():.4g}" in warm[0].message
+
+
+def test_ke_derived_from_a_kt_of_unstated_temperature_is_read_on_the_unsafe_end():
+    # DESIGN.md Judgement 4: the highest Ke the sheet admits. Kt with no magnet temperature
+    # may be the hot constant; at 120 °C NdFeB (−0.11 %/K, REFERENCES.md §6) it is
+    # 1 − 0.0011·100 = 0.89 of the 20 °C one, so ψ cold is 1/0.89 = 1.1236 times higher
+    from tests.conftest import run
+
+    data = {"id": "SC (invented)", "machine": {"poles": 8},
+            "torque_constant": "0.96 N*m/A",
+            "rated": {"magnet_temperature": "120 °C"},
+            "circuit": {"resistance": "1.2 ohm", "ld": "4.8 mH"},
+            "limits": {"max_speed": "6000 rpm"}}
+    first = [f for f in run(data).findings if f.rule == "short-circuit-current"]
+    data["torque_constant"] = {"value": 0.96, "unit": "N*m/A", "magnet_temperature": "20 °C"}
+    stated = [f for f in run(data).findings if f.rule == "short-circuit-current"]
+    assert "read as hot" in first[0].message and "read as hot" not in stated[0].message
+
+    def amps(message: str) -> float:
+        return float(message.split("): ")[1].split(" A rms")[0])
+
+    assert amps(first[0].message) / amps(stated[0].message) == pytest.approx(1 / 0.89,
+                                                                              rel=2e-3)

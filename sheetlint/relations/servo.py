@@ -29,6 +29,7 @@ from sheetlint.cautions import FINDING_CAUTION as CAUTION
 from sheetlint.engine.core import Finding, Relation, RuleOption, Sheet
 from sheetlint.engine.monomial import Evaluation, Monomial
 from sheetlint.physics.dq import RPM, SQRT2
+from sheetlint.physics.magnets import remanence_factor
 from sheetlint.relations.machine import (
     DQ_SOURCE,
     _flux_linkage,
@@ -453,6 +454,23 @@ def steady_short_circuit_current(psi: float, ld: float, lq: float, resistance: f
     return math.hypot(i_d, i_q)
 
 
+def _kt_read_hot(sheet: Sheet) -> tuple[float, str] | None:
+    """(remanence factor < 1, note) when Ke was derived from a Kt of unstated magnet
+    temperature: the unsafe end reads that Kt as hot, so the cold Ke and ψ are higher by
+    1/factor (DESIGN.md, Judgement 4: the highest Ke the sheet admits)."""
+    values = sheet.values
+    ke, kt = values.get("emf.constant"), values.get("torque_constant")
+    hot = values.get("rated.magnet_temperature")
+    if (ke is None or kt is None or hot is None or ke.is_given or kt.temperature is not None
+            or "torque_constant" not in ke.inputs):
+        return None
+    factor = remanence_factor(sheet.attr("machine.magnet"), ROOM, hot.value)
+    if not 0.0 < factor < 1.0:
+        return None
+    return factor, (f"Kt's magnet temperature unstated: read as hot "
+                    f"({hot.value - 273.15:.0f} °C), which gives the highest cold ψ")
+
+
 _SPEED_FIELDS = ("limits.max_speed", "limits.no_load_speed", "rated.speed")
 
 
@@ -533,6 +551,10 @@ class ShortCircuitCurrent(Relation):
         notes = [n for n in inputs.notes if n.startswith("only L_")]
         if cold_note:
             notes.insert(0, cold_note)
+        hot_kt = _kt_read_hot(sheet)
+        if hot_kt is not None:
+            psi /= hot_kt[0]
+            notes.append(hot_kt[1])
         fields = [cold_field if f == inputs.flux_field else f for f in inputs.fields
                   if f != "circuit.resistance_hot"]
         cold_r = values.get("circuit.resistance")
