@@ -75,6 +75,7 @@ def _example(kind: str) -> str:
             "torque_constant": "1.85 N*m/A", "flux_linkage": "0.25 Wb",
             "temperature": "20 °C", "temperature_difference": "80 K", "mass": "120 kg",
             "inertia": "0.05 kg*m**2", "length": "1000 m", "time": "60 s",
+            "motor_constant": "0.25 N*m/√W",
             "count": "8"}.get(kind, "")
 
 
@@ -293,6 +294,20 @@ class Limits(Section):
     max_speed: Physical("limits.max_speed")  # type: ignore[valid-type]
     peak_torque: Physical("limits.peak_torque", duration="time")  # type: ignore[valid-type]
     peak_current: Physical("limits.peak_current", duration="time")  # type: ignore[valid-type]
+    no_load_speed: Physical("limits.no_load_speed", supply="voltage")  # type: ignore[valid-type]
+    demagnetisation_current: Physical(  # type: ignore[valid-type]
+        "limits.demagnetisation_current", magnet_temperature="temperature")
+
+
+class Dynamics(Section):
+    """Servo catalogue constants: time constants and the motor constant."""
+
+    electrical_time_constant: Physical(  # type: ignore[valid-type]
+        "dynamics.electrical_time_constant")
+    mechanical_time_constant: Physical(  # type: ignore[valid-type]
+        "dynamics.mechanical_time_constant")
+    motor_constant: Physical("dynamics.motor_constant")  # type: ignore[valid-type]
+    thermal_time_constant: Physical("dynamics.thermal_time_constant")  # type: ignore[valid-type]
 
 
 class Supply(Section):
@@ -336,6 +351,7 @@ class MachineRecord(BaseModel):
     circuit: Circuit = Field(default_factory=Circuit)
     limits: Limits = Field(default_factory=Limits)
     supply: Supply = Field(default_factory=Supply)
+    dynamics: Dynamics = Field(default_factory=Dynamics)
     efficiency_class: Annotated[
         EfficiencyClaim | None, BeforeValidator(_claim),
         WithJsonSchema({"anyOf": [
@@ -350,7 +366,7 @@ class MachineRecord(BaseModel):
         description="known deviations the record's author accepts: rule, fields and a reason")
 
 
-SECTIONS = ("machine", "rated", "emf", "circuit", "limits", "supply")
+SECTIONS = ("machine", "rated", "emf", "circuit", "limits", "supply", "dynamics")
 
 
 def record_json_schema() -> dict[str, Any]:

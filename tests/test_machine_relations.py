@@ -29,9 +29,9 @@ from sheetlint.relations.machine import (
     FieldWeakeningSpeed,
     OverspeedEmf,
     PullOutMargin,
-    ShortCircuitCurrent,
     VoltageLimitRelation,
 )
+from sheetlint.relations.servo import ShortCircuitCurrent
 
 ALL = (DqOperatingPoint, VoltageLimitRelation, FieldWeakeningSpeed, OverspeedEmf,
        PullOutMargin, ShortCircuitCurrent)
@@ -275,21 +275,6 @@ def test_pull_out_too_close_is_a_warning_naming_closed_loop() -> None:
     # L I/psi = 0.75: rated load angle about 37 deg, pull-out about 1.6x rated torque
     assert [f.severity for f in run(PullOutMargin, model_sheet(SPM, 30.0, 3000 * RPM))] == [
         "info"]
-
-
-def test_short_circuit_current_above_peak_current_is_a_warning() -> None:
-    values = {"machine.poles": Known(8.0),
-              "emf.constant_hot": known(ke_from_flux_linkage(0.1, 4)),
-              "circuit.ld": known(0.5e-3), "circuit.lq": known(0.5e-3),
-              "limits.peak_current": known(50.0)}
-    findings = run(ShortCircuitCurrent, Sheet("sc", values, {}))
-    assert [f.severity for f in findings] == ["warning"]
-    assert "demagnetisation" in findings[0].message and "141.4 A" in findings[0].message
-    values["limits.peak_current"] = known(150.0)
-    assert run(ShortCircuitCurrent, Sheet("sc", values, {})) == []
-    del values["limits.peak_current"]
-    values["rated.current"] = known(50.0)  # no peak current: only a note (see docstring)
-    assert [f.severity for f in run(ShortCircuitCurrent, Sheet("sc", values, {}))] == ["info"]
 
 
 # --- robustness ----------------------------------------------------------------------------

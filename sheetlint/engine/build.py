@@ -54,6 +54,19 @@ def thermal_class_number(value: Any) -> int | str | None:
     return int(number) if number.is_integer() else str(value)
 
 
+def supply_kind(supply: Measured | None) -> str | None:
+    """``dc`` or ``ac`` as a supply voltage's unit marks it (``560 V DC``, ``400 Vac``);
+    None when the unit does not say."""
+    if supply is None:
+        return None
+    unit = supply.reading.unit.replace(" ", "").replace("*", "").replace(".", "").lower()
+    if unit.endswith("dc"):
+        return "dc"
+    if unit.endswith(("ac", "rms")):
+        return "ac"
+    return None
+
+
 @cache
 def _given_plan(path: str) -> tuple[dict[str, float] | None, str | None, Mapping[str, float]]:
     """(factor per stated basis, default basis, sensitivity) of a field path, worked out once;
@@ -94,6 +107,9 @@ _MACHINE_FIELDS = tuple((name, f"machine.{name}")
                                      "stack_length"))
 _LIMIT_FIELDS = tuple((name, f"limits.{name}")
                       for name in ("max_speed", "peak_torque", "peak_current"))
+_DYNAMICS_FIELDS = tuple((name, f"dynamics.{name}")
+                         for name in ("electrical_time_constant", "mechanical_time_constant",
+                                      "motor_constant", "thermal_time_constant"))
 _COUNT_FIELDS = tuple((name, f"machine.{name}") for name in ("poles", "pole_pairs", "phases"))
 _MAGNET_NAMES = {"ndfeb": "NdFeB", "smco": "SmCo", "ferrite": "ferrite"}
 
@@ -162,6 +178,22 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
     limits_fields = vars(fields_of["limits"])
     for name, path in _LIMIT_FIELDS:
         put(path, limits_fields[name])
+    no_load = limits_fields["no_load_speed"]
+    if no_load is not None:
+        put("limits.no_load_speed", no_load)
+        if "supply" in no_load.extras:
+            put("limits.no_load_speed.supply", no_load.extras["supply"])
+    demagnetisation = limits_fields["demagnetisation_current"]
+    if demagnetisation is not None:
+        put("limits.demagnetisation_current", demagnetisation,
+            demagnetisation.magnet_temperature)
+    dynamics_fields = vars(fields_of["dynamics"])
+    servo_sheet = False
+    for name, path in _DYNAMICS_FIELDS:
+        m = dynamics_fields[name]
+        if m is not None:
+            put(path, m)
+            servo_sheet = True
     supply_fields = vars(fields_of["supply"])
     put("supply.mains_voltage", supply_fields["mains_voltage"])
     put("supply.dc_link_voltage", supply_fields["dc_link_voltage"])
@@ -191,6 +223,9 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
         "limits.peak_current.duration": peak_current.duration
         if peak_current is not None else None,
         "accepted": [(a.rule, a.reason, tuple(a.fields)) for a in fields_of["accepted"]],
+        "dynamics.stated": servo_sheet,
+        "limits.no_load_speed.supply_kind": supply_kind(no_load.extras.get("supply"))
+        if no_load is not None else None,
     }
     sheet = Sheet(record.id, values, attributes, settings, locate)
     notes.extend(_unknown_field_notes(record, fields_of, sheet, odd_qualifiers))

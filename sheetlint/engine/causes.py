@@ -257,4 +257,18 @@ def readings(sheet: Sheet, path: str) -> list[Slip]:
         out.append(Slip(path, 2 / 3, "the value lacks the 3/2 of the amplitude-invariant "
                            "dq model", rank=4))
     out += _prefix_readings(path, kind, known)
+    out += _declared_readings(path)
+    return out
+
+
+def _declared_readings(path: str) -> list[Slip]:
+    """Readings a relation declares for its own fields (``slip_readings``: field ->
+    ((factor, reading), ...)), e.g. a mechanical time constant worked out with the terminal
+    resistance as if per phase."""
+    from sheetlint.relations.registry import relations_with
+
+    out = []
+    for relation in relations_with("slip_readings"):
+        for factor, reading in relation.slip_readings.get(path, ()):  # type: ignore[attr-defined]
+            out.append(Slip(path, factor, f"it is {reading}", rank=2))
     return out

@@ -1,5 +1,6 @@
 """Machine model: the steady-state dq model against the sheet, converter voltage, field
-weakening, overspeed back-EMF, open-loop pull-out margin and short-circuit current.
+weakening, overspeed back-EMF and open-loop pull-out margin (the short-circuit current is in
+:mod:`sheetlint.relations.servo`).
 
 The physics lives in :mod:`sheetlint.physics.dq` (pure functions on SI floats); this module
 gathers the model's inputs from a sheet, states which assumptions it made, and turns the
@@ -1065,76 +1066,3 @@ class PullOutMargin(Relation):
             fields, expected_text={torque[1][0]: f"≤ {t_po / min_ratio:.4g} N·m"},
             actual_text={torque[1][0]: f"{torque[0]:.4g} N·m"}, deviation=min_ratio / ratio - 1)
 
-
-# --- short-circuit-current ---------------------------------------------------------------------
-@register
-class ShortCircuitCurrent(Relation):
-    """Steady-state short-circuit current ψ/L_d against the peak (or rated) current.
-
-    .. math:: I_{sc} = \\frac{\\psi}{\\sqrt2\\,L_d} \\ \\text{(rms, high speed, R neglected)}
-
-    A three-phase short circuit of a turning PM machine (a converter fault, or a protective
-    short-circuit of the terminals) drives this current. Above the peak current it is a
-    ``warning``: the converter's fault path must carry it, and the stator field opposes the
-    magnets — check the magnets' demagnetisation limit with the manufacturer. With no peak
-    current given it is compared with the rated current as an ``info`` only: ψ/L_d above
-    rated current is normal (I_sc/I_rated = 1/x, x = L_d·I/ψ < 1 in most machines), so a
-    warning there would fire on consistent sheets. Uses ψ at the rated magnet temperature;
-    cold magnets give more.
-
-    Example that fails: ψ = 0.1 Wb, L_d = 0.5 mH: 141 A rms against a 50 A peak current.
-
-    Fix: confirm with the manufacturer that the magnets withstand the short-circuit current,
-    and size the converter's protection for it.
-
-    References: Soong & Miller, IEE Proc. EPA 141(6), 1994 (characteristic current; from
-    memory).
-    """
-
-    rule = "short-circuit-current"
-    title = "short-circuit current vs peak current"
-    equation = "I_sc = ψ/(√2·L_d) ≤ I_peak"
-    fields = ("circuit.ld", "emf.constant", "limits.peak_current", "rated.current")
-    kind = "safety"
-    severity_policy = "warning when ψ/L_d exceeds the peak (or rated) current"
-    source = "Soong & Miller, IEE Proc. EPA 141(6), 1994; " + DQ_SOURCE
-    status = "trial"
-    order = 77
-
-    @_guarded
-    def check(self, sheet: Sheet) -> Iterator[Finding]:
-        inputs = model_inputs(sheet, self.rule)
-        if inputs is None:
-            return
-        get = sheet.values.get
-        reference = get("limits.peak_current")
-        name = "limits.peak_current"
-        if reference is None or reference.value <= 0.0:
-            reference, name = get("rated.current"), "rated.current"
-        if reference is None or reference.value <= 0.0:
-            return
-        i_sc = characteristic_current(inputs.machine) / SQRT2
-        margin = inputs.uncertainty + reference.uncertainty
-        if i_sc <= reference.value * (1.0 + margin):
-            return
-        fields = [name, *inputs.fields]
-        label = "rated current" if name == "rated.current" else "peak current"
-        text = (f"Steady-state short-circuit current ψ/L_d = {i_sc:.4g} A rms (magnets at the "
-                f"rated temperature) against the {label} "
-                f"{reference.value:.4g} A. {_join(inputs.notes)}").rstrip()
-        if name == "rated.current":
-            # ψ/L_d above rated current is the normal case (it equals I_rated/x with the
-            # per-unit reactance x < 1): a note asking for the peak current, not a warning
-            yield sheet.finding(
-                self, "info", f"{text} State limits.peak_current to have the converter's "
-                "fault current and the magnets' demagnetisation limit checked against it.",
-                fields)
-            return
-        yield sheet.finding(
-            self, "warning",
-            f"A terminal short circuit at speed drives more current than the "
-            f"{label}: the converter's fault path must carry it "
-            f"and the stator field opposes the magnets (demagnetisation risk; confirm the "
-            f"magnets' limit with the manufacturer). {text} {CAUTION}",
-            fields, expected_text={name: f"≥ {i_sc:.4g} A"},
-            actual={name: reference.value}, deviation=reference.value / i_sc - 1.0)

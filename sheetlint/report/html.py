@@ -18,7 +18,9 @@ overspeed check), so a crossing in a plot is the crossing a finding reports:
 - torque against speed: the machine-model envelope at the rated and the peak current when ψ
   (or Ke), Ld, Lq and p are known; otherwise an estimate (the torque up to rated speed, then
   constant power), with the rated and listed points, the current limit, the speed where the
-  back-EMF reaches the voltage limit, and the maximum speed.
+  back-EMF reaches the voltage limit, and the maximum speed; for a servo sheet with a
+  standstill (0 rpm) point, that point, the continuous line from it to the rated point and
+  the peak torque line.
 
 One meaning per colour and per line style in every plot (:data:`ROLES`): solid lines are
 values from the sheet or worked out from it, dashed lines are estimates, dotted lines are
@@ -406,7 +408,34 @@ def envelope_plot(sheet: Sheet) -> Plot | None:
         if n is not None and t is not None:
             plot.markers.append(Marker(f"points[{i}]: {n / RPM:.0f} r/min, {t:.4g} N·m",
                                        n / RPM, t))
+    _servo_lines(plot, values, count, rated_speed, rated_torque, peak_torque, ke, u_limit,
+                 top_speed)
     return plot
+
+
+def _servo_lines(plot: Plot, values: dict[str, Known], count: Any, rated_speed: float,
+                 rated_torque: float, peak_torque: float | None, ke: float | None,
+                 u_limit: float | None, top_speed: float) -> None:
+    """Servo sheets: the standstill (0 rpm) point, the continuous line from it to the rated
+    point, and the peak torque line up to the speed where the back-EMF reaches the voltage
+    limit (or the top of the plot)."""
+    for i in range(int(count) if isinstance(count, int) else 0):
+        speed = values.get(f"points[{i}].speed")
+        t0 = _value(values, f"points[{i}].torque")
+        if speed is None or speed.value != 0.0 or t0 is None:
+            continue
+        i0 = _value(values, f"points[{i}].current")
+        plot.markers.append(Marker(f"standstill point points[{i}]: 0 rpm, {t0:.4g} N·m"
+                                   + (f" at {i0:.4g} A" if i0 is not None else ""), 0.0, t0))
+        plot.series.append(Series("continuous line: standstill to rated point",
+                                  [0.0, rated_speed / RPM], [t0, rated_torque], "rated"))
+        if peak_torque is not None:
+            end = u_limit / ke if ke is not None and u_limit is not None else top_speed
+            end = min(end, top_speed)
+            plot.series.append(Series(f"peak torque line {peak_torque:.4g} N·m"
+                                      + (" to the voltage limit" if end < top_speed else ""),
+                                      [0.0, end / RPM], [peak_torque, peak_torque], "peak"))
+        return
 
 
 def plots_for(sheet: Sheet | None) -> tuple[list[Plot], list[str]]:
