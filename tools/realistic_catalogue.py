@@ -613,7 +613,11 @@ def _servo_once(rng: random.Random, convention: str) -> Sheet:
     stall_torque = point.shaft_torque * rng.uniform(1.05, 1.25)
     stall_current = stall_torque / kt20 * rng.uniform(1.0, 1.03)
     peak_current = stall_current * rng.uniform(3.0, 4.0)
-    peak_torque = peak_current * kt20 * rng.uniform(0.8, 0.95)
+    # peak torque: hot magnets, saturation at high current (common practice: 3–15 %), and the
+    # loss torque of the rated speed
+    kt_hot = kt20 * machine.psi_at(magnet_temperature) / machine.psi20
+    loss_torque = point.electromagnetic_torque - point.shaft_torque
+    peak_torque = peak_current * kt_hot * rng.uniform(0.85, 0.97) - loss_torque
     power_text = (f"{power:g} W" if power < 1000 and rng.random() < 0.7
                   else f"{rating_text(power_kw)} kW")
     r_line = 2.0 * machine.r20
