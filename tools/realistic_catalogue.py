@@ -331,7 +331,7 @@ def _design(rng: random.Random, *, topology: str, power: float, speed: float, po
     current_guess = (power + total_loss) / (SQRT3 * rated_voltage * cos_guess)
     phase_voltage = rated_voltage / SQRT3
     if topology == "spm":
-        x_q, saliency = rng.uniform(0.18, 0.45), 1.0
+        x_q, saliency = rng.triangular(0.12, 0.42, 0.25), 1.0
     elif topology == "ipm":
         x_q, saliency = rng.uniform(0.5, 0.95), rng.uniform(1.6, 2.8)
     else:
