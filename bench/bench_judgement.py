@@ -88,7 +88,7 @@ def convention_table(count: int, folder: Path, examples: dict[str, Any]) -> list
     for convention in CONVENTIONS:
         sheets = [consistent(convention, seed) for seed in range(count)]
         sub = folder / convention
-        sub.mkdir()
+        sub.mkdir(exist_ok=True)
         records = run(sheets, sub)
         errors = sum(any(f["severity"] == "error" for f in r["findings"]) for r in records)
         warnings = sum(any(f["severity"] == "warning" for f in r["findings"]) for r in records)
@@ -111,16 +111,17 @@ def convention_table(count: int, folder: Path, examples: dict[str, Any]) -> list
     return lines
 
 
-def slip_table(count: int, folder: Path, examples: dict[str, Any]) -> list[str]:
+def slip_table(count: int, folder: Path, examples: dict[str, Any],
+               keep: bool = False) -> list[str]:
     lines = [f"{'slip':20} {'n':>5} {'flag%':>6} {'new%':>6} {'err%':>6} {'field%':>7} "
              f"{'first%':>7} {'kw%':>6} {'kwcause%':>8}  most frequent loud rules"]
     for slip in SLIPS:
         sheets = [planted(slip.name, seed) for seed in range(count)]
         sub = folder / slip.name
-        sub.mkdir()
+        sub.mkdir(exist_ok=True)
         records = run(sheets, sub)
         twins_folder = folder / f"{slip.name}-twins"
-        twins_folder.mkdir()
+        twins_folder.mkdir(exist_ok=True)
         twins = run([Sheet(s.consistent_record or {}, "twin", s.machine, s.rated)
                      for s in sheets], twins_folder)
         flagged = new = listed = first = keyword = keyword_cause = errors = 0
@@ -148,6 +149,17 @@ def slip_table(count: int, folder: Path, examples: dict[str, Any]) -> list[str]:
                 keyword_cause += any(pattern.search(f.get("cause") or "") for f in findings)
         if missed_example is not None:
             examples.setdefault("missed slips", {})[slip.name] = missed_example
+        examples.setdefault("slip examples", {})[slip.name] = {
+            "corrupted": list(sheets[0].corrupted_fields), "record": sheets[0].record,
+            "loud": [{k: f.get(k) for k in ("rule", "severity", "fields", "cause", "message")}
+                     for f in loud(records[0])]}
+        if keep:
+            manifest = {f"{index:05d}.yaml": {"slip": slip.name,
+                                              "fields": list(sheet.corrupted_fields),
+                                              "keyword": slip.keyword}
+                        for index, sheet in enumerate(sheets)}
+            (sub / "manifest.yaml").write_text(yaml.safe_dump(manifest, allow_unicode=True),
+                                               encoding="utf-8")
 
         def pct(value: int) -> str:
             return f"{100 * value / count:.1f}"
@@ -167,7 +179,8 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--examples", type=Path, default=None,
                         help="write one example record per (convention, rule) here (YAML)")
     parser.add_argument("--keep", type=Path, default=None,
-                        help="write the generated sheets into this folder and keep them")
+                        help="write the generated sheets into this folder and keep them (with a "
+                             "manifest.yaml per slip: corrupted fields and keyword)")
     parser.add_argument("--only", choices=("conventions", "slips"), default=None)
     args = parser.parse_args(argv)
     assert set(SLIP_BY_NAME) == {s.name for s in SLIPS}
@@ -188,7 +201,7 @@ def main(argv: list[str] | None = None) -> int:
                   "get; first = the corrupted field is a loud finding's first field;")
             print("kw = the slip's keyword in a loud finding's cause or message (≥ 80 %); "
                   "kwcause = in a cause")
-            print("\n".join(slip_table(args.count, folder, examples)))
+            print("\n".join(slip_table(args.count, folder, examples, keep=bool(args.keep))))
     if args.examples:
         args.examples.write_text(yaml.safe_dump(examples, allow_unicode=True, sort_keys=False,
                                                 width=100), encoding="utf-8")

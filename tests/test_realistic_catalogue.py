@@ -334,3 +334,25 @@ def test_planted_slip_cause_names_the_slip(slip: str, seed: int, tmp_path: Path)
     pattern = re.compile(SLIP_BY_NAME[slip].keyword or "", re.IGNORECASE)
     assert any(pattern.search(f["cause"] or "") for f in _loud(record)), [
         (f["rule"], f["cause"]) for f in _loud(record)]
+
+
+def test_generated_ipm_machines_bracket_the_open_2k2_ipm_lab_machine() -> None:
+    """Realism against outside data: the 2.2 kW IPM of motulator 0.18.0's examples
+    (tests/data/open_datasets/drive-simulator-2k2-ipm.yaml: 14 N·m, 4.3 A, 370 V, 75 Hz,
+    n_p 3, ψ 0.545 Wb) has rated T/I = 0.939·√3·Ke and a rated voltage 17.6 % over its
+    back-EMF (hand arithmetic); the generator's ipm machines span both figures."""
+    ke = ke_line_rms(3, 0.545)
+    open_ratio = 14.0 / 4.3 / (math.sqrt(3) * ke)
+    open_margin = 370.0 / (ke * 2 * math.pi * 75.0 / 3) - 1
+    assert open_ratio == pytest.approx(0.939, abs=1e-3)
+    assert open_margin == pytest.approx(0.176, abs=1e-3)
+    ratios, margins = [], []
+    for seed in range(120):
+        sheet = consistent("industrial_magnet_unstated", seed)
+        if sheet.machine.topology != "ipm":
+            continue
+        kt20 = math.sqrt(3) * ke_line_rms(sheet.machine.pole_pairs, sheet.machine.psi20)
+        ratios.append(sheet.rated.shaft_torque / sheet.rated.current / kt20)
+        margins.append(sheet.rated.voltage / sheet.rated.back_emf - 1)
+    assert min(ratios) < open_ratio < max(ratios)
+    assert min(margins) < open_margin < max(margins)
