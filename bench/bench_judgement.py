@@ -2,8 +2,9 @@
 
 Generates N consistent sheets per convention and N sheets per planted slip with
 ``tools/realistic_catalogue.py`` (written apart from the engine), writes each as a YAML file
-into a temporary folder, checks them through sheetlint's public entry point
-(``sheetlint.batch.check_paths``, read back through the JSON output contract) and prints:
+into a temporary folder, checks each folder with sheetlint's command line
+(``sheetlint check --format json --no-config``, read through DESIGN.md's JSON output
+contract) and prints:
 
 - per convention: % of consistent records with an error, with a warning, and the rules that
   fired most (records in which a rule gave a warning or error);
@@ -33,15 +34,15 @@ import yaml
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
-from sheetlint.batch import check_paths
-from sheetlint.report.json_report import payload
 from tools.realistic_catalogue import (
     CONVENTIONS,
     SLIP_BY_NAME,
     SLIPS,
     Sheet,
+    check_with_sheetlint,
     consistent,
     planted,
+    write_sheets,
 )
 
 #: names a finding may use for a field of the data contract (derived readings of one field)
@@ -60,22 +61,11 @@ def names_field(finding_field: str, corrupted: tuple[str, ...]) -> bool:
 
 
 def run(sheets: list[Sheet], folder: Path) -> list[dict[str, Any]]:
-    """Check every sheet (one file each); the JSON record results in the same order."""
-    paths = []
-    for index, sheet in enumerate(sheets):
-        path = folder / f"{index:05d}.yaml"
-        path.write_text(yaml.safe_dump(sheet.record, allow_unicode=True, sort_keys=False),
-                        encoding="utf-8")
-        paths.append(str(path))
-    results = list(check_paths(paths, jobs=1))
-    files = payload(results)["files"]
-    records = []
-    for entry in files:
-        if entry.get("error") or not entry.get("records"):
-            records.append({"error": entry.get("error") or "no record", "findings": []})
-        else:
-            records.append(entry["records"][0])
-    return records
+    """Check every sheet (one file each) with the command line; results in the same order."""
+    paths = write_sheets([sheet.record for sheet in sheets], folder)
+    results = check_with_sheetlint(folder)
+    return [results.get(path.name, {"error": "missing from the output", "findings": []})
+            for path in paths]
 
 
 def loud(record: dict[str, Any]) -> list[dict[str, Any]]:
@@ -88,7 +78,6 @@ def convention_table(count: int, folder: Path, examples: dict[str, Any]) -> list
     for convention in CONVENTIONS:
         sheets = [consistent(convention, seed) for seed in range(count)]
         sub = folder / convention
-        sub.mkdir(exist_ok=True)
         records = run(sheets, sub)
         errors = sum(any(f["severity"] == "error" for f in r["findings"]) for r in records)
         warnings = sum(any(f["severity"] == "warning" for f in r["findings"]) for r in records)
@@ -118,10 +107,8 @@ def slip_table(count: int, folder: Path, examples: dict[str, Any],
     for slip in SLIPS:
         sheets = [planted(slip.name, seed) for seed in range(count)]
         sub = folder / slip.name
-        sub.mkdir(exist_ok=True)
         records = run(sheets, sub)
         twins_folder = folder / f"{slip.name}-twins"
-        twins_folder.mkdir(exist_ok=True)
         twins = run([Sheet(s.consistent_record or {}, "twin", s.machine, s.rated)
                      for s in sheets], twins_folder)
         flagged = new = listed = first = keyword = keyword_cause = errors = 0
@@ -158,8 +145,8 @@ def slip_table(count: int, folder: Path, examples: dict[str, Any],
                                               "fields": list(sheet.corrupted_fields),
                                               "keyword": slip.keyword}
                         for index, sheet in enumerate(sheets)}
-            (sub / "manifest.yaml").write_text(yaml.safe_dump(manifest, allow_unicode=True),
-                                               encoding="utf-8")
+            (folder / f"{slip.name}-manifest.yaml").write_text(
+                yaml.safe_dump(manifest, allow_unicode=True), encoding="utf-8")
 
         def pct(value: int) -> str:
             return f"{100 * value / count:.1f}"
@@ -180,7 +167,7 @@ def main(argv: list[str] | None = None) -> int:
                         help="write one example record per (convention, rule) here (YAML)")
     parser.add_argument("--keep", type=Path, default=None,
                         help="write the generated sheets into this folder and keep them (with a "
-                             "manifest.yaml per slip: corrupted fields and keyword)")
+                             "SLIP-manifest.yaml per slip: corrupted fields and keyword)")
     parser.add_argument("--only", choices=("conventions", "slips"), default=None)
     args = parser.parse_args(argv)
     assert set(SLIP_BY_NAME) == {s.name for s in SLIPS}

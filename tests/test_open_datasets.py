@@ -17,20 +17,23 @@ from typing import Any
 import pytest
 import yaml
 
-from sheetlint.batch import check_paths
-from sheetlint.report.json_report import payload
-from tools.realistic_catalogue import dq_voltages, mtpa_current_for_torque, mtpa_currents
+from tools.realistic_catalogue import (
+    check_with_sheetlint,
+    dq_voltages,
+    mtpa_current_for_torque,
+    mtpa_currents,
+)
 
 DATA = Path(__file__).resolve().parent / "data" / "open_datasets"
 FILES = sorted(DATA.glob("*.yaml"))
 
 
-def _checked(path: Path) -> dict[str, Any]:
-    (entry,) = payload(list(check_paths([str(path)], jobs=1)))["files"]
-    assert entry["error"] is None, entry["error"]
-    (record,) = entry["records"]
-    assert record["error"] is None, record["error"]
-    return record
+@pytest.fixture(scope="module")
+def checked() -> dict[str, dict[str, Any]]:
+    """Every data file checked in one run of the command line (JSON contract), by file name."""
+    results = check_with_sheetlint(DATA)
+    assert all(not record.get("error") for record in results.values()), results
+    return results
 
 
 def test_every_source_is_named_beside_its_data() -> None:
@@ -42,8 +45,8 @@ def test_every_source_is_named_beside_its_data() -> None:
 
 
 @pytest.mark.parametrize("path", FILES, ids=[p.stem for p in FILES])
-def test_open_dataset_gives_no_error(path: Path) -> None:
-    record = _checked(path)
+def test_open_dataset_gives_no_error(path: Path, checked: dict[str, dict[str, Any]]) -> None:
+    record = checked[path.name]
     errors = [(f["rule"], f["message"]) for f in record["findings"] if f["severity"] == "error"]
     assert errors == []
 
@@ -76,12 +79,13 @@ def test_power_torque_speed_holds_on_the_source_numbers(name: str, stated_power:
     assert _si(rated["torque"]) * omega == pytest.approx(stated_power, rel=1e-3)
 
 
-def test_sheetlint_derives_the_speed_and_frequency_the_sources_imply() -> None:
+def test_sheetlint_derives_the_speed_and_frequency_the_sources_imply(
+        checked: dict[str, dict[str, Any]]) -> None:
     """Derived values of sheetlint against the sources: 75 Hz with 3 pole pairs is 1500 rpm
     (motulator 2.2 kW); 3000 rpm with 3 pole pairs is 150 Hz (gym-electric-motor default)."""
-    derived = _checked(DATA / "drive-simulator-2k2-ipm.yaml")["derived"]
+    derived = checked["drive-simulator-2k2-ipm.yaml"]["derived"]
     assert derived["rated.speed"]["value"] == pytest.approx(1500.0, rel=1e-3)
-    derived = _checked(DATA / "motor-control-gym-pmsm.yaml")["derived"]
+    derived = checked["motor-control-gym-pmsm.yaml"]["derived"]
     assert derived["rated.frequency"]["value"] == pytest.approx(150.0, rel=1e-9)
 
 

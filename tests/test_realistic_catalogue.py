@@ -3,29 +3,27 @@
 The generator (``tools/realistic_catalogue.py``) is written apart from the engine; these tests
 first check the generator itself (its dq solution against scipy's optimiser as an independent
 solver, the power balance, the IEC 60034-1 tolerance sense, the 235 rule), then run sheetlint's
-public check on a fixed small sample: consistent sheets must raise no error and no warning;
-each planted slip must be flagged and the corrupted field named. Tests of the engine that
-today's engine fails are marked xfail (issues 15/16: judgement being rebuilt), one by one.
+public command line (JSON output contract) once on a fixed small sample: consistent sheets
+must raise no error and no warning; each planted slip must be flagged and the corrupted field
+named. Tests that today's engine fails are marked xfail (issues 15/16: judgement being
+rebuilt), case by case.
 """
 
 from __future__ import annotations
 
 import math
-from pathlib import Path
 from typing import Any
 
 import pytest
-import yaml
 from scipy.optimize import minimize, minimize_scalar
 
-from sheetlint.batch import check_paths
-from sheetlint.report.json_report import payload
 from tools.realistic_catalogue import (
     CONVENTIONS,
     SLIP_BY_NAME,
     SLIPS,
     WATT_PER_HP,
     Machine,
+    check_with_sheetlint,
     consistent,
     dq_torque,
     dq_voltages,
@@ -39,8 +37,11 @@ from tools.realistic_catalogue import (
     significant,
     solve_point,
     v_per_krpm,
+    write_sheets,
 )
 
+CONSISTENT_SAMPLE = [(c, s) for c in CONVENTIONS for s in range(3)]
+SLIP_SAMPLE = [(s.name, seed) for s in SLIPS for seed in range(2)]
 REBUILDING = pytest.mark.xfail(reason="issue 15: judgement being rebuilt", strict=False)
 DIAGNOSIS = pytest.mark.xfail(reason="issue 16: diagnosis being rebuilt", strict=False)
 
@@ -249,16 +250,25 @@ def test_solve_point_below_base_speed_uses_the_mtpa_current() -> None:
 # sheetlint judged on a fixed small sample
 # ------------------------------------------------------------------------------------------
 
-def _check(records: list[dict[str, Any]], folder: Path) -> list[dict[str, Any]]:
-    paths = []
-    for index, record in enumerate(records):
-        path = folder / f"{index:03d}.yaml"
-        path.write_text(yaml.safe_dump(record, allow_unicode=True, sort_keys=False),
-                        encoding="utf-8")
-        paths.append(str(path))
-    files = payload(list(check_paths(paths, jobs=1)))["files"]
-    assert all(entry["error"] is None for entry in files), [e["error"] for e in files]
-    return [entry["records"][0] for entry in files]
+@pytest.fixture(scope="module")
+def judged(tmp_path_factory: pytest.TempPathFactory) -> dict[str, dict[str, Any]]:
+    """Every sample sheet of this module checked in one run of the command line (JSON
+    contract), keyed by "consistent:CONVENTION:SEED", "slip:NAME:SEED", "twin:NAME:SEED"."""
+    keys: list[str] = []
+    records: list[dict[str, Any]] = []
+    for convention, seed in CONSISTENT_SAMPLE:
+        keys.append(f"consistent:{convention}:{seed}")
+        records.append(consistent(convention, seed).record)
+    for slip, seed in SLIP_SAMPLE:
+        sheet = planted(slip, seed)
+        keys += [f"slip:{slip}:{seed}", f"twin:{slip}:{seed}"]
+        records += [sheet.record, sheet.consistent_record or {}]
+    folder = tmp_path_factory.mktemp("realistic-catalogue")
+    paths = write_sheets(records, folder)
+    results = check_with_sheetlint(folder)
+    judged = {key: results[path.name] for key, path in zip(keys, paths, strict=True)}
+    assert not [key for key, record in judged.items() if record.get("error")]
+    return judged
 
 
 def _loud(record: dict[str, Any]) -> list[dict[str, Any]]:
@@ -273,20 +283,17 @@ CONSISTENT_FAILING_TODAY = {
     ("industrial_magnet_unstated", 1), ("industrial_magnet_unstated", 2),
     ("servo", 0), ("servo", 1), ("servo", 2), ("unstated_bases", 0), ("unstated_bases", 2),
     ("three_digits", 0), ("three_digits", 1)}
-CONSISTENT_SAMPLE = [(c, s) for c in CONVENTIONS for s in range(3)]
 
 
 @pytest.mark.parametrize(("convention", "seed"), [
     pytest.param(c, s, marks=[REBUILDING] if (c, s) in CONSISTENT_FAILING_TODAY else [])
     for c, s in CONSISTENT_SAMPLE])
-def test_consistent_sheet_gives_no_error_and_no_warning(convention: str, seed: int,
-                                                        tmp_path: Path) -> None:
-    (record,) = _check([consistent(convention, seed).record], tmp_path)
-    assert not record["error"]
+def test_consistent_sheet_gives_no_error_and_no_warning(
+        convention: str, seed: int, judged: dict[str, dict[str, Any]]) -> None:
+    record = judged[f"consistent:{convention}:{seed}"]
     assert _loud(record) == [], [(f["rule"], f["message"]) for f in _loud(record)]
 
 
-SLIP_SAMPLE = [(s.name, seed) for s in SLIPS for seed in range(2)]
 #: (slip, seed) pairs not flagged today by a new warning/error naming the corrupted field
 FLAG_FAILING_TODAY = {
     ("uh_mh", 0), ("kt_per_peak_ampere", 0), ("kt_per_peak_ampere", 1), ("r_line_phase", 0),
@@ -309,12 +316,12 @@ def _names(field_name: str, corrupted: tuple[str, ...]) -> bool:
 @pytest.mark.parametrize(("slip", "seed"), [
     pytest.param(s, n, marks=[REBUILDING] if (s, n) in FLAG_FAILING_TODAY else [])
     for s, n in SLIP_SAMPLE])
-def test_planted_slip_is_flagged_naming_the_corrupted_field(slip: str, seed: int,
-                                                            tmp_path: Path) -> None:
+def test_planted_slip_is_flagged_naming_the_corrupted_field(
+        slip: str, seed: int, judged: dict[str, dict[str, Any]]) -> None:
     """A warning or error that lists the corrupted field and that the consistent twin of the
     sheet does not get (so a false alarm already present cannot pass for a catch)."""
     sheet = planted(slip, seed)
-    record, twin = _check([sheet.record, sheet.consistent_record], tmp_path)
+    record, twin = judged[f"slip:{slip}:{seed}"], judged[f"twin:{slip}:{seed}"]
     twin_keys = {(f["rule"], f["severity"], tuple(f["fields"])) for f in _loud(twin)}
     catches = [f for f in _loud(record)
                if (f["rule"], f["severity"], tuple(f["fields"])) not in twin_keys
@@ -325,12 +332,12 @@ def test_planted_slip_is_flagged_naming_the_corrupted_field(slip: str, seed: int
 @pytest.mark.parametrize(("slip", "seed"), [
     pytest.param(s, n, marks=[DIAGNOSIS] if (s, n) in KEYWORD_FAILING_TODAY else [])
     for s, n in SLIP_SAMPLE if SLIP_BY_NAME[s].keyword])
-def test_planted_slip_cause_names_the_slip(slip: str, seed: int, tmp_path: Path) -> None:
+def test_planted_slip_cause_names_the_slip(slip: str, seed: int,
+                                           judged: dict[str, dict[str, Any]]) -> None:
     """Issue 16: a loud finding's cause names the slip (hp, √3, peak, line, pole, 1000, 50/60…)."""
     import re
 
-    sheet = planted(slip, seed)
-    (record,) = _check([sheet.record], tmp_path)
+    record = judged[f"slip:{slip}:{seed}"]
     pattern = re.compile(SLIP_BY_NAME[slip].keyword or "", re.IGNORECASE)
     assert any(pattern.search(f["cause"] or "") for f in _loud(record)), [
         (f["rule"], f["cause"]) for f in _loud(record)]

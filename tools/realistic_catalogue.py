@@ -44,6 +44,7 @@ import re
 import sys
 from collections.abc import Callable
 from dataclasses import dataclass, field
+from pathlib import Path
 from typing import Any
 
 from scipy.optimize import brentq
@@ -924,9 +925,40 @@ def keyword_named(slip: Slip, texts: list[str]) -> bool:
     return any(pattern.search(text or "") for text in texts)
 
 
-def as_plain(record: dict[str, Any]) -> dict[str, Any]:
-    """A deep copy safe for YAML and JSON."""
-    return copy.deepcopy(record)
+def write_sheets(records: list[dict[str, Any]], folder: Path) -> list[Path]:
+    """Write each record as its own YAML file ``00000.yaml``, ``00001.yaml``… in ``folder``."""
+    import yaml
+
+    folder.mkdir(parents=True, exist_ok=True)
+    paths = []
+    for index, record in enumerate(records):
+        path = folder / f"{index:05d}.yaml"
+        path.write_text(yaml.safe_dump(record, allow_unicode=True, sort_keys=False),
+                        encoding="utf-8")
+        paths.append(path)
+    return paths
+
+
+def check_with_sheetlint(folder: Path) -> dict[str, dict[str, Any]]:
+    """Run the public command line, ``sheetlint check --format json --no-config FOLDER``, and
+    return each file's first record result by file name (a file error becomes a record with
+    that error and no findings). Only the JSON output contract of DESIGN.md is read."""
+    import json
+    import subprocess
+
+    command = [sys.executable, "-m", "sheetlint", "check", "--format", "json", "--no-config",
+               "--no-progress", str(folder)]
+    done = subprocess.run(command, capture_output=True, text=True, check=False)
+    if done.returncode not in (0, 1, 2) or not done.stdout.strip():
+        raise RuntimeError(f"sheetlint failed ({done.returncode}): {done.stderr[-2000:]}")
+    results: dict[str, dict[str, Any]] = {}
+    for entry in json.loads(done.stdout)["files"]:
+        name = Path(entry["path"]).name
+        if entry.get("error") or not entry.get("records"):
+            results[name] = {"error": entry.get("error") or "no record", "findings": []}
+        else:
+            results[name] = entry["records"][0]
+    return results
 
 
 def main(argv: list[str] | None = None) -> int:
