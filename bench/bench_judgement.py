@@ -75,6 +75,7 @@ def loud(record: dict[str, Any]) -> list[dict[str, Any]]:
 def convention_table(count: int, folder: Path, examples: dict[str, Any]) -> list[str]:
     lines = [f"{'convention':28} {'n':>5} {'error%':>7} {'warn%':>7} {'unread':>6}  "
              "most frequent loud rules (records)"]
+    by_topology: dict[str, dict[str, Any]] = {}
     for convention in CONVENTIONS:
         sheets = [consistent(convention, seed) for seed in range(count)]
         sub = folder / convention
@@ -97,6 +98,20 @@ def convention_table(count: int, folder: Path, examples: dict[str, Any]) -> list
         top = ", ".join(f"{k} {100 * v / count:.0f}%" for k, v in rules.most_common(6))
         lines.append(f"{convention:28} {count:5d} {100 * errors / count:7.1f} "
                      f"{100 * warnings / count:7.1f} {unread:6d}  {top}")
+        for sheet, record in zip(sheets, records, strict=True):
+            tally = by_topology.setdefault(sheet.machine.topology,
+                                           {"n": 0, "error": 0, "warning": 0, "rules": Counter()})
+            tally["n"] += 1
+            tally["error"] += any(f["severity"] == "error" for f in record["findings"])
+            tally["warning"] += any(f["severity"] == "warning" for f in record["findings"])
+            tally["rules"].update({f"{f['rule']}:{f['severity'][0]}" for f in loud(record)})
+    lines.append("")
+    lines.append("The same consistent sheets by topology (all conventions together):")
+    for topology, tally in sorted(by_topology.items()):
+        n = tally["n"]
+        top = ", ".join(f"{k} {100 * v / n:.0f}%" for k, v in tally["rules"].most_common(4))
+        lines.append(f"{topology:28} {n:5d} {100 * tally['error'] / n:7.1f} "
+                     f"{100 * tally['warning'] / n:7.1f} {'':6}  {top}")
     return lines
 
 

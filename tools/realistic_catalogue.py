@@ -877,6 +877,7 @@ def _plant_overspeed(rng: random.Random) -> Sheet:
     return sheet
 
 
+LINE_PHASE_KEYWORD = r"[×÷]\s*2(?![.\d/])|terminal[- ]to[- ]terminal|between terminals|delta"
 #: keyword patterns name the slip itself, not formula text that every message of a rule
 #: carries ("√3·Ke", "peak current", "line rms"): a factor with its operator, or the reading
 SLIPS: tuple[Slip, ...] = (
@@ -892,10 +893,10 @@ SLIPS: tuple[Slip, ...] = (
     Slip("kt_per_peak_ampere", ("torque_constant",), r"[×÷]\s*√2|peak ampere|peak rather than",
          _plant_kt_peak),
     Slip("r_line_phase", ("circuit.resistance",),
-         r"[×÷]\s*2(?![.\d/])|terminal|delta|resistance.{0,40}\bline\b|\bline\b.{0,40}resistance",
+         LINE_PHASE_KEYWORD + r"|resistance.{0,40}\bline\b|\bline\b.{0,40}resistance",
          _plant_line_phase("resistance")),
     Slip("l_line_phase", ("circuit.ld", "circuit.lq"),
-         r"[×÷]\s*2(?![.\d/])|terminal|delta|inductance.{0,40}\bline\b|\bline\b.{0,40}inductance",
+         LINE_PHASE_KEYWORD + r"|inductance.{0,40}\bline\b|\bline\b.{0,40}inductance",
          _plant_line_phase("inductance")),
     Slip("poles_pm2", ("machine.poles",),
          r"\b\d+[ -]poles?\b|\b\d+ pole pairs\b|poles?\s*[±+-]\s*2", _plant_poles),
