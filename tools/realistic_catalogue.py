@@ -43,6 +43,7 @@ import random
 import re
 import sys
 from collections.abc import Callable
+from contextvars import ContextVar
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
@@ -240,11 +241,16 @@ def solve_point(machine: Machine, speed_rpm: float, shaft_torque: float, *,
 # printing the way catalogues print
 # --------------------------------------------------------------------------------------------
 
+#: set while a sheet is printed whose catalogue keeps trailing zeros ("118.0", not "118")
+KEEP_TRAILING_ZEROS: ContextVar[bool] = ContextVar("keep_trailing_zeros", default=False)
+
+
 def significant(value: float, digits: int) -> str:
     """``value`` rounded to ``digits`` significant digits, in plain decimal notation.
 
     A whole number of 10 or more is printed without a decimal point ("20", "100", "1420"), as
-    catalogues print round numbers; otherwise every kept digit is printed ("1.00", "0.9570").
+    catalogues print round numbers, unless ``KEEP_TRAILING_ZEROS`` is set ("118.0"); otherwise
+    every kept digit is printed ("1.00", "0.9570").
     """
     if value == 0.0:
         return "0"
@@ -255,14 +261,16 @@ def significant(value: float, digits: int) -> str:
     if rounded != 0.0 and math.floor(math.log10(abs(rounded))) > exponent:
         decimals -= 1
         rounded = round(value, decimals)
-    if decimals <= 0 or (float(rounded).is_integer() and abs(rounded) >= 10):
+    whole = float(rounded).is_integer() and abs(rounded) >= 10
+    if decimals <= 0 or (whole and not KEEP_TRAILING_ZEROS.get()):
         return str(round(float(rounded)))
     return f"{rounded:.{decimals}f}"
 
 
 def number(value: float, digits: int) -> int | float:
-    """``value`` at ``digits`` significant digits as a YAML/JSON number that keeps the
-    written digits: an int for a whole number of 10 or more ("118", not "118.0")."""
+    """``value`` at ``digits`` significant digits as a YAML/JSON number: an int for a whole
+    number of 10 or more ("118"), else a float (a float keeps no trailing zero of its
+    decimals: "5.630" is written 5.63, one digit less, never more)."""
     text = significant(value, digits)
     return float(text) if "." in text else int(text)
 
@@ -432,6 +440,15 @@ def industrial(rng: random.Random, convention: str, *, topology: str | None = No
                speed: float | None = None, poles: int | None = None,
                power_kw: float | None = None) -> Sheet:
     """An industrial sheet (0.75–500 kW), Kt printed as rated T/I at the hot rated point."""
+    token = KEEP_TRAILING_ZEROS.set(rng.random() < 0.25)
+    try:
+        return _industrial_drawn(rng, convention, topology, speed, poles, power_kw)
+    finally:
+        KEEP_TRAILING_ZEROS.reset(token)
+
+
+def _industrial_drawn(rng: random.Random, convention: str, topology: str | None,
+                      speed: float | None, poles: int | None, power_kw: float | None) -> Sheet:
     for _ in range(200):
         try:
             sheet = _industrial_once(rng, convention, topology, speed, poles, power_kw)
@@ -554,6 +571,14 @@ def _industrial_once(rng: random.Random, convention: str, topology: str | None,
 
 def servo(rng: random.Random, convention: str = "servo") -> Sheet:
     """A servo catalogue sheet (0.2–15 kW)."""
+    token = KEEP_TRAILING_ZEROS.set(rng.random() < 0.25)
+    try:
+        return _servo_drawn(rng, convention)
+    finally:
+        KEEP_TRAILING_ZEROS.reset(token)
+
+
+def _servo_drawn(rng: random.Random, convention: str) -> Sheet:
     for _ in range(200):
         try:
             sheet = _servo_once(rng, convention)
