@@ -12,6 +12,7 @@ rebuilt), case by case.
 from __future__ import annotations
 
 import math
+import re
 from typing import Any
 
 import pytest
@@ -331,8 +332,6 @@ def test_planted_slip_is_flagged_naming_the_corrupted_field(
 def test_planted_slip_cause_names_the_slip(slip: str, seed: int,
                                            judged: dict[str, dict[str, Any]]) -> None:
     """Issue 16: a loud finding's cause names the slip (hp, √3, peak, line, pole, 1000, 50/60…)."""
-    import re
-
     record = judged[f"slip:{slip}:{seed}"]
     pattern = re.compile(SLIP_BY_NAME[slip].keyword or "", re.IGNORECASE)
     assert any(pattern.search(f["cause"] or "") for f in _loud(record)), [
@@ -359,3 +358,27 @@ def test_generated_ipm_machines_bracket_the_open_2k2_ipm_lab_machine() -> None:
         margins.append(sheet.rated.voltage / sheet.rated.back_emf - 1)
     assert min(ratios) < open_ratio < max(ratios)
     assert min(margins) < open_margin < max(margins)
+
+
+@pytest.mark.parametrize(("slip", "cause"), [
+    # the cause wordings DESIGN.md gives as examples ("Relations", last paragraph)
+    ("poles_pm2", "machine.poles: agrees with 6 poles"),
+    ("ke_per_phase", "emf.constant: agrees if Ke is per phase, not line-to-line"),
+    # wordings of today's engine that do name the slip
+    ("hz_50_60", "agrees if rated.frequency is a 50 Hz value next to 60 Hz data (÷1.2)"),
+    ("ke_peak", "agrees with the usual margin if Ke is peak rather than rms (×√2)"),
+    ("hp_kw", "agrees if rated.power is a power in hp labelled kW (×1.341)"),
+])
+def test_slip_keywords_accept_the_wordings_that_name_the_slip(slip: str, cause: str) -> None:
+    assert re.search(SLIP_BY_NAME[slip].keyword or "", cause, re.IGNORECASE)
+
+
+@pytest.mark.parametrize(("slip", "message"), [
+    ("ke_per_phase", "rated torque per ampere and the hot torque constant √3·Ke disagree"),
+    ("ke_peak", "Steady-state short-circuit current ψ/L_d = 24.38 A rms against the peak current"),
+    ("r_line_phase", "A terminal short circuit at speed drives more current than the peak current"),
+    ("uh_mh", "rated voltage is +18.0% over the hot back-EMF (1000 V line rms)"),
+])
+def test_slip_keywords_ignore_formula_text_of_any_message(slip: str, message: str) -> None:
+    """Text a rule prints whatever the fault must not count as naming the slip."""
+    assert not re.search(SLIP_BY_NAME[slip].keyword or "", message, re.IGNORECASE)
