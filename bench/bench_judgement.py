@@ -17,6 +17,7 @@ corrupted field listed ≥ 92 %, keyword named ≥ 80 % of the known slips. The 
 figures and asserts nothing.
 
     .venv/bin/python bench/bench_judgement.py [N] [--examples FILE] [--keep DIR]
+        [--only conventions|slips] [--first-seed K]
 """
 
 from __future__ import annotations
@@ -72,12 +73,14 @@ def loud(record: dict[str, Any]) -> list[dict[str, Any]]:
     return [f for f in record.get("findings", []) if f["severity"] in LOUD]
 
 
-def convention_table(count: int, folder: Path, examples: dict[str, Any]) -> list[str]:
+def convention_table(count: int, folder: Path, examples: dict[str, Any],
+                     first_seed: int = 0) -> list[str]:
     lines = [f"{'convention':28} {'n':>5} {'error%':>7} {'warn%':>7} {'unread':>6}  "
              "most frequent loud rules (records)"]
     by_topology: dict[str, dict[str, Any]] = {}
     for convention in CONVENTIONS:
-        sheets = [consistent(convention, seed) for seed in range(count)]
+        sheets = [consistent(convention, seed)
+                  for seed in range(first_seed, first_seed + count)]
         sub = folder / convention
         records = run(sheets, sub)
         errors = sum(any(f["severity"] == "error" for f in r["findings"]) for r in records)
@@ -116,11 +119,11 @@ def convention_table(count: int, folder: Path, examples: dict[str, Any]) -> list
 
 
 def slip_table(count: int, folder: Path, examples: dict[str, Any],
-               keep: bool = False) -> list[str]:
+               keep: bool = False, first_seed: int = 0) -> list[str]:
     lines = [f"{'slip':20} {'n':>5} {'flag%':>6} {'new%':>6} {'err%':>6} {'field%':>7} "
              f"{'first%':>7} {'kw%':>6} {'kwcause%':>8}  most frequent loud rules"]
     for slip in SLIPS:
-        sheets = [planted(slip.name, seed) for seed in range(count)]
+        sheets = [planted(slip.name, seed) for seed in range(first_seed, first_seed + count)]
         sub = folder / slip.name
         records = run(sheets, sub)
         twins_folder = folder / f"{slip.name}-twins"
@@ -184,6 +187,8 @@ def main(argv: list[str] | None = None) -> int:
                         help="write the generated sheets into this folder and keep them (with a "
                              "SLIP-manifest.yaml per slip: corrupted fields and keyword)")
     parser.add_argument("--only", choices=("conventions", "slips"), default=None)
+    parser.add_argument("--first-seed", type=int, default=0,
+                        help="seeds FIRST…FIRST+N−1 (default 0): another sample of the same kind")
     args = parser.parse_args(argv)
     assert set(SLIP_BY_NAME) == {s.name for s in SLIPS}
     started = time.perf_counter()
@@ -194,7 +199,7 @@ def main(argv: list[str] | None = None) -> int:
         if args.only != "slips":
             print("Consistent sheets: % of records with an error / a warning "
                   "(target: 0 % errors, ≤ 1 % warnings)")
-            print("\n".join(convention_table(args.count, folder, examples)))
+            print("\n".join(convention_table(args.count, folder, examples, args.first_seed)))
             print()
         if args.only != "conventions":
             print("Planted slips (one per sheet): flagged = a warning or error (target ≥ 97 %); "
@@ -203,7 +208,8 @@ def main(argv: list[str] | None = None) -> int:
                   "get; first = the corrupted field is a loud finding's first field;")
             print("kw = the slip's keyword in a loud finding's cause or message (≥ 80 %); "
                   "kwcause = in a cause")
-            print("\n".join(slip_table(args.count, folder, examples, keep=bool(args.keep))))
+            print("\n".join(slip_table(args.count, folder, examples, keep=bool(args.keep),
+                                        first_seed=args.first_seed)))
     if args.examples:
         args.examples.write_text(yaml.safe_dump(examples, allow_unicode=True, sort_keys=False,
                                                 width=100), encoding="utf-8")
