@@ -3,7 +3,7 @@
 Generates N consistent sheets per convention and N sheets per planted slip with
 ``tools/realistic_catalogue.py`` (written apart from the engine), writes each as a YAML file
 into a temporary folder, checks each folder with sheetlint's command line
-(``sheetlint check --format json --no-config``, read through DESIGN.md's JSON output
+(``sheetlint check --format json --no-settings``, read through DESIGN.md's JSON output
 contract) and prints:
 
 - per convention: % of consistent records with an error, with a warning, and the rules that

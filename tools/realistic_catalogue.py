@@ -977,13 +977,13 @@ def write_sheets(records: list[dict[str, Any]], folder: Path) -> list[Path]:
 
 
 def check_with_sheetlint(folder: Path) -> dict[str, dict[str, Any]]:
-    """Run the public command line, ``sheetlint check --format json --no-config FOLDER``, and
+    """Run the public command line, ``sheetlint check --format json --no-settings FOLDER``, and
     return each file's first record result by file name (a file error becomes a record with
     that error and no findings). Only the JSON output contract of DESIGN.md is read."""
     import json
     import subprocess
 
-    command = [sys.executable, "-m", "sheetlint", "check", "--format", "json", "--no-config",
+    command = [sys.executable, "-m", "sheetlint", "check", "--format", "json", "--no-settings",
                "--no-progress", str(folder)]
     done = subprocess.run(command, capture_output=True, text=True, check=False)
     if done.returncode not in (0, 1, 2) or not done.stdout.strip():

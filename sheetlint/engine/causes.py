@@ -97,6 +97,11 @@ class Slip:
 
 
 # --- readings per kind of field ------------------------------------------------------------
+#: bases no sheet uses for that kind: a rated voltage is never printed as a phase peak (a
+#: reading that would fit by coincidence more often than by slip)
+_UNUSUAL_BASES = frozenset({("voltage", "phase_peak")})
+
+
 def _basis_readings(path: str, kind: str, known: Known) -> list[Slip]:
     factors = BASIS_FACTOR.get(kind)
     if factors is None:
@@ -106,7 +111,7 @@ def _basis_readings(path: str, kind: str, known: Known) -> list[Slip]:
     said = "as stated" if known.basis_stated else "as read by default"
     out = []
     for alternative, alt_factor in factors.items():
-        if alternative == stated:
+        if alternative == stated or (kind, alternative) in _UNUSUAL_BASES:
             continue
         factor = factors[stated] / alt_factor
         out.append(Slip(path, factor, f"the value is {words[alternative]}, not "

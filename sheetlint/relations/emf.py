@@ -257,7 +257,10 @@ class VoltageMargin(Relation):
             consequence = ("the converter cannot push rated current without field weakening"
                            if topology == "spm" else "the rated point is in field weakening; "
                            "the dq model decides whether it is reachable")
-            yield sheet.finding(self, "warning", f"{text}: {consequence}", fields)
+            yield sheet.finding(self, "warning", f"{text}: {consequence}", fields,
+                                cause="the back-EMF at rated speed exceeds the rated voltage: "
+                                      "rated current needs field weakening, or the voltage or "
+                                      "Ke is on another basis")
             return
         if topology != "spm":
             yield sheet.finding(self, "info", text + ("" if topology else
