@@ -12,6 +12,7 @@ from collections.abc import Sequence
 from typing import Any
 
 from sheetlint import __version__
+from sheetlint.compare import command as compare_command
 
 FORMATS = ("text", "json", "sarif")
 
@@ -46,6 +47,7 @@ def _parser() -> argparse.ArgumentParser:
     derive.add_argument("--include-estimates", action="store_true",
                         help="also write estimates (marked as such)")
 
+    compare_command.add_parser(sub)
     sub.add_parser("schema", help="print the JSON Schema of a data file")
     rules = sub.add_parser("rules",
                            help="list every rule with its equation, severity policy and source")
@@ -274,6 +276,7 @@ COMMANDS = {
     "rules": cmd_rules,
     "explain": cmd_explain,
     "extract": cmd_extract,
+    "compare": compare_command.run,
 }
 
 
