@@ -502,7 +502,8 @@ def evaluate_efficiency(sheet: Sheet, req: Requirement) -> RequirementResult:
     claim = sheet.attr("efficiency_class")
     detail = (f"declared η = {100 * eta:.2f} % at {power / 1e3:.4g} kW against the {wanted} "
               f"minimum {100 * minimum.efficiency:.1f} % (approximation: {minimum.method}); "
-              f"reaches {'IE' + str(reached) if reached else 'no class from IE2'}")
+              f"reaches {'IE' + str(reached) if reached else 'no class from IE2'}; margin on "
+              "the losses scale, 1 − (1 − η)/(1 − η_min)")
     if claim:
         detail += f"; the sheet claims {claim}"
     return _finish(RequirementResult(name, MET if eta >= minimum.efficiency else NOT_MET,
