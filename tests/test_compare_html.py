@@ -90,3 +90,33 @@ def test_page_renders_in_headless_chromium(tmp_path, page):
     width, height, variety = _png_size_and_variety(shot)
     assert (width, height) == (1200, 2200)
     assert variety > 50  # text, shaded cells and plots, not a blank page
+
+
+def _relative_luminance(colour: str) -> float:
+    """WCAG 2.1 relative luminance of an sRGB colour '#rrggbb' (W3C, Web Content
+    Accessibility Guidelines 2.1, definition of relative luminance)."""
+    channels = []
+    for i in (1, 3, 5):
+        c = int(colour[i:i + 2], 16) / 255
+        channels.append(c / 12.92 if c <= 0.03928 else ((c + 0.055) / 1.055) ** 2.4)
+    r, g, b = channels
+    return 0.2126 * r + 0.7152 * g + 0.0722 * b
+
+
+def _contrast(a: str, b: str) -> float:
+    """WCAG 2.1 contrast ratio (L1 + 0.05)/(L2 + 0.05)."""
+    la, lb = sorted((_relative_luminance(a), _relative_luminance(b)), reverse=True)
+    return (la + 0.05) / (lb + 0.05)
+
+
+def test_status_palette_reads_in_grey_print_wcag_contrast(page):
+    from sheetlint.compare.html import STATUS_COLOURS
+
+    for status, (background, text) in STATUS_COLOURS.items():
+        # WCAG 2.1 success criterion 1.4.3: at least 4.5:1 for normal text
+        assert _contrast(background, text) >= 4.5, status
+        assert background in page and text in page
+    # in grey the three backgrounds stay apart: luminance steps of at least 1.3:1 between
+    # neighbours (our own threshold; the status word is in every cell as well)
+    met, unknown, not_met = (STATUS_COLOURS[s][0] for s in ("met", "unknown", "not_met"))
+    assert _contrast(met, unknown) >= 1.3 and _contrast(unknown, not_met) >= 3.0

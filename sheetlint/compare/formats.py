@@ -165,6 +165,16 @@ def _figure_label(name: str) -> str:
     return f"{name} [{unit}]" if unit else name
 
 
+def rank_unit(comparison: Comparison) -> str:
+    """SI unit of the ranking figure (a computed figure's own, else the field's)."""
+    for offer in comparison.offers:
+        if offer.evaluation is not None and comparison.rank_figure in \
+                offer.evaluation.extra_figures:
+            return offer.evaluation.extra_figures[comparison.rank_figure][1]
+    spec = spec_for(comparison.rank_figure)
+    return KINDS[spec.kind].si_unit if spec else ""
+
+
 def table_rows(comparison: Comparison) -> list[list[Any]]:
     """Rows of the CSV/XLSX table: header, verdict and rank, one row per requirement, then
     the offers' main figures; one column per offer."""
@@ -173,7 +183,7 @@ def table_rows(comparison: Comparison) -> list[list[Any]]:
                              ["file", *[o.path for o in offers]],
                              ["verdict", *[o.verdict for o in offers]],
                              ["rank", *[o.rank for o in offers]]]
-    rank_label = f"rank figure: {comparison.rank_figure}"
+    rank_label = f"rank figure: {comparison.rank_figure} [{rank_unit(comparison)}]"
     rows.append([rank_label, *[None if o.rank_value is None else float(f"{o.rank_value:.6g}")
                                for o in offers]])
     for name in requirement_names(comparison):

@@ -40,6 +40,9 @@ LINE_STYLES = (("#1f3b57", "", "circle"), ("#8a4b08", "8 4", "square"),
                ("#3d6b35", "2 3", "triangle"), ("#6b2f5b", "10 3 2 3", "diamond"),
                ("#555555", "4 4", "circle"))
 STATUS_CLASS = {"met": "met", "not_met": "notmet", "unknown": "unknown"}
+#: (background, text) of each status cell: our own palette, set apart by lightness
+STATUS_COLOURS = {"met": ("#e6eff5", "#10202c"), "unknown": ("#c9c9b4", "#111111"),
+                  "not_met": ("#3b4d5e", "#ffffff")}
 STATUS_WORD = {"met": "met", "not_met": "NOT MET", "unknown": "unknown"}
 
 _CSS = """
@@ -47,18 +50,19 @@ body{font-family:sans-serif;margin:1.5em;color:#111;max-width:1400px}
 table{border-collapse:collapse;margin:1em 0}
 th,td{border:1px solid #777;padding:.35em .5em;vertical-align:top;font-size:.92em}
 th{background:#eee;text-align:left}
-td.met{background:#e6eff5;color:#10202c}
-td.unknown{background:#c9c9b4;color:#111;border:2px dotted #333;font-style:italic}
-td.notmet{background:#3b4d5e;color:#fff;font-weight:bold}
+td.met{background:%(met_bg)s;color:%(met_fg)s}
+td.unknown{background:%(unknown_bg)s;color:%(unknown_fg)s;border:2px dotted #333;font-style:italic}
+td.notmet{background:%(not_met_bg)s;color:%(not_met_fg)s;font-weight:bold}
 td .detail{display:block;font-weight:normal;font-size:.85em;margin-top:.2em}
 .verdict-compliant{font-weight:bold}
 .verdict-not_compliant{font-weight:bold;text-decoration:underline}
 .caution{border:2px solid #333;padding:.6em;background:#f4f4f4}
 figure{display:inline-block;margin:.5em 1em .5em 0}
 pre{white-space:pre-wrap;background:#f7f7f7;padding:.6em;border:1px solid #ccc}
-@media print{td.notmet{-webkit-print-color-adjust:exact;print-color-adjust:exact}
-td.met,td.unknown{-webkit-print-color-adjust:exact;print-color-adjust:exact}}
-"""
+@media print{td.notmet,td.met,td.unknown{-webkit-print-color-adjust:exact;
+print-color-adjust:exact}}
+""" % {f"{status}_{part}": colours[index] for status, colours in STATUS_COLOURS.items()
+       for index, part in enumerate(("bg", "fg"))}
 
 
 def _nice_step(span: float) -> float:
