@@ -39,3 +39,11 @@ def test_rank_by_a_named_figure(capsys):
     not_compliant = [o for o in doc["offers"] if o["verdict"] == "not_compliant"]
     # B 940 kg, C 870 kg: the lighter first among equal verdicts
     assert [o["id"] for o in not_compliant] == ["PE-SM 165/10", "CBD 160-8 HS"]
+
+
+def test_without_a_requirement_offers_stand_side_by_side(capsys):
+    assert main(["compare", "--no-letters", *OFFERS]) == 0
+    out = capsys.readouterr().out
+    assert "Figures side by side" in out and "rated.power [kW]" in out
+    # only the sheet's own check decides: offer D's planted slip leaves it incomplete
+    assert "TM-PMS 170.10 (" in out and "incomplete" in out

@@ -272,6 +272,28 @@ def render_xlsx(comparison: Comparison) -> bytes:
     return buffer.getvalue()
 
 
+def figures_table(comparison: Comparison) -> list[str]:
+    """The offers' main figures side by side (text), derived ones marked ``d``, estimates
+    ``e``."""
+    offers = comparison.offers
+    width = max([14, *(min(len(o.id), 22) + 2 for o in offers)])
+    rows = ["Figures side by side (d = derived, e = estimate):",
+            " " * 30 + "".join(f"{o.id[:22]:>{width}}" for o in offers)]
+    for name in FIGURE_FIELDS:
+        cells = []
+        for offer in offers:
+            value, _unit = _figure_cell(offer, name)
+            known = (offer.result.sheet.values.get(name) if offer.result is not None
+                     and offer.result.sheet is not None else None)
+            mark = "" if known is None or known.is_given else (" e" if known.is_estimate
+                                                                else " d")
+            cells.append("-" if value is None else f"{value:.5g}{mark}")
+        if any(c != "-" for c in cells):
+            rows.append(f"{_figure_label(name)[:30]:<30}"
+                        + "".join(f"{c:>{width}}" for c in cells))
+    return rows
+
+
 _STATUS_WORD = {"met": "met", "not_met": "NOT MET", "unknown": "unknown"}
 
 
@@ -279,13 +301,15 @@ def render_text(comparison: Comparison, letters: bool = True) -> str:
     """Plain text: the ranking, each offer's requirements, and its questions letter."""
     req = comparison.requirement
     lines = [f"Offers compared against: {req.title or req.path}" if req else
-             "Offers compared (no requirement given)", ""]
+             "Offers compared without a requirement: the verdict rests on each sheet's own "
+             "check only", ""]
     lines.append(f"Ranking (by verdict, then {comparison.rank_figure}, "
                  f"{'higher' if comparison.descending else 'lower'} first):")
     for offer in comparison.offers:
         value = "" if offer.rank_value is None else f"  {comparison.rank_figure} = " \
             f"{offer.rank_value:.4g}"
         lines.append(f"  {offer.rank}. {offer.id} ({offer.path}): {offer.verdict}{value}")
+    lines += ["", *figures_table(comparison)]
     for offer in comparison.offers:
         lines += ["", f"== {offer.id} ({offer.path}): {offer.verdict}"]
         if offer.error:

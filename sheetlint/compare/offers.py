@@ -67,11 +67,12 @@ def compare_offers(paths: list[str], requirement: Requirement | None, *,
                    settings: Settings | None = None) -> Comparison:
     """Check, evaluate, judge and rank every offer under ``paths``."""
     offers = load_offers(paths, settings)
+    # without a requirement only the sheet's own check decides (the ``consistency`` row)
+    asked = requirement if requirement is not None else Requirement()
     for offer in offers:
-        if offer.result is not None and requirement is not None:
-            offer.evaluation = evaluate_offer(offer.result, requirement)
-        offer.verdict = verdict_of(offer.evaluation) if offer.result is not None or \
-            requirement is not None else "incomplete"
+        if offer.result is not None:
+            offer.evaluation = evaluate_offer(offer.result, asked)
+        offer.verdict = verdict_of(offer.evaluation)
         offer.questions = questions_for(offer, requirement)
     ordered = rank_offers(offers, rank_figure, descending)
     errors = [o.error for o in offers if o.error]
