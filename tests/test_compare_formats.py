@@ -99,3 +99,16 @@ def test_xlsx_reads_back_with_the_same_table(tmp_path, comparison):
     power_row = labels.index("rated.power [kW]") + 1
     assert sheet.cell(row=power_row, column=2).value == 170  # a number, not text
     assert {"Details", "Questions"} <= set(book.sheetnames)
+
+
+@pytest.mark.parametrize(("text", "named"), [
+    ("a: &x [1, 2]\nb: [*x, *x]\n", "aliases"),
+    ("duty: [{speed: 1500 rpm, torque: 1000 N*m}\n", "not valid YAML"),
+    ("[" * 5000 + "]" * 5000, "not valid YAML"),
+])
+def test_hostile_requirement_files_give_a_message(tmp_path, text, named):
+    path = tmp_path / "req.yaml"
+    path.write_text(text, encoding="utf-8")
+    with pytest.raises(RequirementProblem) as caught:
+        read_requirement(str(path))
+    assert named in str(caught.value) and "req.yaml" in str(caught.value)

@@ -286,7 +286,14 @@ def read_requirement(path: str) -> Requirement:
         else:
             import yaml
 
+            # a requirement needs no anchors or aliases; refusing them keeps a small file from
+            # expanding into a huge document
+            if any(isinstance(event, yaml.AliasEvent) for event in yaml.parse(text)):
+                raise RequirementProblem(f"{path}: YAML aliases (*name) are not accepted in a "
+                                         "requirement file; write the values out")
             data = yaml.safe_load(text)
+    except RequirementProblem:
+        raise
     except Exception as exc:  # any parser error becomes a message naming the file
         first = str(exc).splitlines()[0] if str(exc) else type(exc).__name__
         raise RequirementProblem(f"{path}: not valid YAML or JSON ({first[:160]})") from None
