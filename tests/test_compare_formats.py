@@ -104,7 +104,9 @@ def test_xlsx_reads_back_with_the_same_table(tmp_path, comparison):
 @pytest.mark.parametrize(("text", "named"), [
     ("a: &x [1, 2]\nb: [*x, *x]\n", "aliases"),
     ("duty: [{speed: 1500 rpm, torque: 1000 N*m}\n", "not valid YAML"),
-    ("[" * 5000 + "]" * 5000, "not valid YAML"),
+    ("[" * 5000 + "]" * 5000, "nested too deeply"),
+    ("".join(" " * (2 * k) + f"k{k}:\n" for k in range(40)) + " " * 80 + "x: 1\n",
+     "nested too deeply"),
 ])
 def test_hostile_requirement_files_give_a_message(tmp_path, text, named):
     path = tmp_path / "req.yaml"

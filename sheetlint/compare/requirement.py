@@ -267,6 +267,27 @@ def requirement_from_data(data: Any, name: str = "requirement") -> Requirement:
     return out
 
 
+#: deepest nesting of brackets, or of indentation in steps of two spaces, read at all: a
+#: requirement needs four levels; a parser walking thousands of levels takes tens of seconds
+MAX_NESTING = 32
+
+
+def _nested_too_deeply(text: str) -> bool:
+    """True when brackets nest, or lines are indented, deeper than :data:`MAX_NESTING`
+    (brackets inside quoted text count too: a requirement never needs that many)."""
+    depth = deepest = 0
+    for char in text:
+        if char in "[{":
+            depth += 1
+            deepest = max(deepest, depth)
+        elif char in "]}":
+            depth -= 1
+    if deepest > MAX_NESTING:
+        return True
+    return any(len(line) - len(line.lstrip(" ")) > 2 * MAX_NESTING
+               for line in text.splitlines())
+
+
 def read_requirement(path: str) -> Requirement:
     """Read a requirement file (YAML or JSON); :class:`RequirementProblem` on any problem."""
     try:
@@ -280,6 +301,9 @@ def read_requirement(path: str) -> Requirement:
     except (OSError, UnicodeDecodeError) as exc:
         reason = getattr(exc, "strerror", None) or str(exc)
         raise RequirementProblem(f"{path}: cannot read file ({reason})") from None
+    if _nested_too_deeply(text):
+        raise RequirementProblem(f"{path}: nested too deeply for a requirement file (more than "
+                                 f"{MAX_NESTING} levels)")
     try:
         if path.lower().endswith(".json"):
             data = json.loads(text)
