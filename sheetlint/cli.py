@@ -12,6 +12,7 @@ from collections.abc import Callable, Sequence
 from typing import Any
 
 from sheetlint import __version__
+from sheetlint.compare import command as compare_command
 
 FORMATS = ("text", "json", "sarif")
 
@@ -305,6 +306,18 @@ def cmd_extract(args: argparse.Namespace) -> int:
     return 0 if extraction.records else 2
 
 
+def _add_commission(sub: Any) -> None:
+    from sheetlint.commission.command import add_parser
+
+    add_parser(sub)
+
+
+def _run_commission(args: argparse.Namespace) -> int:
+    from sheetlint.commission.command import run
+
+    return run(args)
+
+
 #: every subcommand: name -> (registers its parser, runs it). A new subcommand adds one line
 #: here and its two functions.
 SUBCOMMANDS: dict[str, tuple[Callable[[Any], None], Callable[[argparse.Namespace], int]]] = {
@@ -314,6 +327,8 @@ SUBCOMMANDS: dict[str, tuple[Callable[[Any], None], Callable[[argparse.Namespace
     "extract": (_add_extract, cmd_extract),
     "rules": (_add_rules, cmd_rules),
     "schema": (_add_schema, cmd_schema),
+    "compare": (compare_command.add_parser, compare_command.run),
+    "commission": (_add_commission, _run_commission),
 }
 
 
