@@ -9,15 +9,13 @@ from __future__ import annotations
 
 import argparse
 import sys
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
-from sheetlint.intake.records import InputProblem, load_records
+if TYPE_CHECKING:
+    from .report import CommissionResult
 
-from .checklist import checklist
-from .identification import identification
-from .measured import MeasuredFileProblem, read_measured_file
-from .parameters import parameter_set
-from .report import CommissionResult, render_csv, render_json, render_text
+# the rest is imported inside the functions: registering the parser must cost the start-up
+# of every other command nothing
 
 FORMATS = ("text", "json", "csv")
 
@@ -52,6 +50,13 @@ def commission(path: str, measured_path: str | None = None, record_id: str | Non
                ) -> CommissionResult:
     """The commissioning result of one record. Raises :class:`CommissionProblem`."""
     from sheetlint.engine.run import check_record
+    from sheetlint.intake.records import InputProblem, load_records
+
+    from .checklist import checklist
+    from .identification import identification
+    from .measured import MeasuredFileProblem, read_measured_file
+    from .parameters import parameter_set
+    from .report import CommissionResult
 
     try:
         loaded = load_records(path)
@@ -90,6 +95,8 @@ def commission(path: str, measured_path: str | None = None, record_id: str | Non
 
 
 def run(args: argparse.Namespace) -> int:
+    from .report import render_csv, render_json, render_text
+
     try:
         result = commission(args.path, args.measured, args.record_id, args.test_speed,
                             args.test_temperature)
