@@ -61,6 +61,8 @@ def _parser() -> argparse.ArgumentParser:
     extract.add_argument("-o", "--output", default=None)
     extract.add_argument("--show-unmapped", action="store_true",
                          help="list table rows that were not mapped to a field (stderr)")
+    from sheetlint.commission.command import add_parser as add_commission_parser
+    add_commission_parser(sub)
     return parser
 
 
@@ -274,6 +276,7 @@ COMMANDS = {
     "rules": cmd_rules,
     "explain": cmd_explain,
     "extract": cmd_extract,
+    "commission": lambda args: args.handler(args),
 }
 
 
