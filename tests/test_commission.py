@@ -19,6 +19,8 @@ import math
 from pathlib import Path
 
 import pytest
+from hypothesis import HealthCheck, example, given, settings
+from hypothesis import strategies as st
 
 from sheetlint.commission.command import CommissionProblem, commission
 from sheetlint.commission.measured import measured_file_schema
@@ -329,3 +331,76 @@ def test_csv_is_a_plain_rectangular_table_a_spreadsheet_opens():
     for row in rows[1:]:
         if row[3]:
             float(row[3])  # every value cell is a plain number
+
+
+# --- what the sheet leaves out ------------------------------------------------------------------
+def test_without_a_stated_rise_the_hot_resistance_is_at_the_class_reference_temperature(
+        tmp_path):
+    # IEC 60034-2-1 reference temperature for thermal class 155 (F): 115 °C (from memory,
+    # REFERENCES §5); 235 rule: R_115 = 0.4346 · (235 + 115)/(235 + 20) = 0.4346 · 350/255
+    # = 0.596510 Ω
+    text = Path(DOSING_5K5).read_text(encoding="utf-8").replace("  temperature_rise: 80 K\n",
+                                                                 "")
+    path = tmp_path / "no-rise.yaml"
+    path.write_text(text, encoding="utf-8")
+    hot = _params(str(path))["resistance_hot"]
+    assert hot.value == pytest.approx(0.5965, abs=0.00005)
+    assert "115 °C" in hot.label
+
+
+def test_the_entries_a_sheet_lacks_are_listed_with_the_field_that_supplies_them():
+    data = json.loads(render_json(commission(PUMP_160K)))
+    assert {m["field"] for m in data["missing"]} == {"machine.inertia", "limits.peak_current"}
+
+
+def test_a_measured_value_the_sheet_cannot_be_compared_with_is_said_so(tmp_path):
+    record = tmp_path / "bare.yaml"
+    record.write_text("id: Invented PMX-15 (invented)\nmachine: {topology: spm, poles: 8}\n"
+                      "rated: {power: 15 kW, speed: 1500 rpm}\n", encoding="utf-8")
+    path = _measured_file(tmp_path, "machine: Invented PMX-15 (invented)\nidentification:\n"
+                                    "  resistance: 0.3 ohm\n  ld: 2 mH\n")
+    result = commission(str(record), path)
+    assert result.identification.comparisons == [] and result.identification.findings == []
+    assert [n.split(":")[0] for n in result.identification.not_compared] == ["resistance", "ld"]
+    assert "nothing compared" in render_text(result)
+
+
+def test_an_implausible_measurement_temperature_is_a_file_error(tmp_path):
+    path = _measured_file(tmp_path, "machine: NHE-PM 160-15\nidentification:\n"
+                                    "  resistance: {value: 0.0361, unit: ohm, temperature: "
+                                    "297 °C}\n")
+    with pytest.raises(CommissionProblem, match=r"identification\.resistance\.temperature"):
+        commission(PUMP_160K, path)
+
+
+# --- no input makes a traceback -----------------------------------------------------------------
+_NUMBERS = st.one_of(st.floats(allow_nan=True, allow_infinity=True), st.integers(-10**6, 10**6))
+_UNITS = st.sampled_from(["ohm", "mohm", "mH", "uH", "V", "rpm", "V/krpm", "°C", "K", "Hz", "",
+                          "kg", "V*s/rad", "ohm/m"])
+_TEXTS = st.builds(lambda n, u: f"{n} {u}", _NUMBERS, _UNITS)
+_SCALARS = st.one_of(st.none(), st.booleans(), _NUMBERS, _TEXTS, st.text(max_size=8))
+_QUALIFIED = st.fixed_dictionaries(
+    {"value": st.one_of(_NUMBERS, st.text(max_size=6), st.none())},
+    optional={"unit": _UNITS, "basis": st.sampled_from(["phase", "line", "delta_branch",
+                                                        "line_rms", "phase_peak", "x"]),
+              "temperature": st.one_of(_TEXTS, _NUMBERS), "magnet_temperature": _TEXTS,
+              "voltage": _TEXTS, "speed": _TEXTS, "constant": _TEXTS})
+_ENTRY = st.one_of(_SCALARS, _QUALIFIED, st.lists(_SCALARS, max_size=2))
+
+
+@settings(max_examples=60, deadline=None,
+          suppress_health_check=[HealthCheck.function_scoped_fixture])
+@example({"resistance": {"value": 1, "unit": "ohm", "basis": "line_rms"}}, "NHE-PM 160-15")
+@given(st.dictionaries(st.sampled_from(["resistance", "ld", "lq", "emf", "cable"]), _ENTRY,
+                       max_size=4),
+       st.sampled_from(["NHE-PM 160-15", "other", 7]))
+def test_any_measured_file_gives_a_result_or_a_message_never_a_traceback(tmp_path, body,
+                                                                         machine):
+    path = tmp_path / "fuzz.json"
+    path.write_text(json.dumps({"machine": machine, "identification": body}), encoding="utf-8")
+    try:
+        result = commission(PUMP_160K, str(path))
+    except CommissionProblem as exc:
+        assert str(path) in str(exc)
+        return
+    render_json(result), render_csv(result), render_text(result)

@@ -106,6 +106,8 @@ class Identification:
     comparisons: list[Comparison] = field(default_factory=list)
     findings: list[Finding] = field(default_factory=list)
     measured_path: str | None = None
+    #: measured quantities the sheet gives nothing to compare with, each with the reason
+    not_compared: list[str] = field(default_factory=list)
 
 
 # --- expected values ---------------------------------------------------------------------------
@@ -510,12 +512,21 @@ def identification(sheet: Sheet, measured: MeasuredFile | None = None,
         result.comparisons.append(judged_r[0])
         if judged_r[1]:
             result.findings.append(judged_r[1])
+    elif measured.resistance is not None:
+        result.not_compared.append("resistance: the sheet gives no circuit.resistance (or no "
+                                   "temperature constant for its conductor)")
     comparisons, findings = judge_inductances(sheet, measured.ld, measured.lq)
     result.comparisons.extend(comparisons)
     result.findings.extend(findings)
+    for axis, value in (("ld", measured.ld), ("lq", measured.lq)):
+        if value is not None and sheet.get(f"circuit.{axis}") is None:
+            result.not_compared.append(f"{axis}: the sheet gives no circuit.{axis}")
     judged = judge_emf(sheet, measured)
     if judged is not None:
         result.comparisons.append(judged[0])
         if judged[1]:
             result.findings.append(judged[1])
+    elif measured.emf is not None:
+        result.not_compared.append("emf: the sheet gives no back-EMF constant, nor what "
+                                   "determines one")
     return result

@@ -25,7 +25,7 @@ from functools import cache
 from typing import Any
 
 from sheetlint.intake.records import InputProblem, load_records
-from sheetlint.units import ROOM_TEMPERATURE, Reading, UnitProblem, read_value
+from sheetlint.units import ROOM_TEMPERATURE, ZERO_CELSIUS, Reading, UnitProblem, read_value
 
 RESISTANCE_BASES = ("phase", "line", "delta_branch")
 INDUCTANCE_BASES = ("phase", "line")
@@ -77,7 +77,11 @@ def _quantity(description: str) -> dict[str, Any]:
         {"type": "string", "description": f"number and unit, e.g. '{description}'"},
         {"type": "object", "properties": {"value": {"type": ["number", "string"]},
                                           "unit": {"type": "string"}},
-         "required": ["value"]}]}
+         "required": ["value"], "additionalProperties": False}]}
+
+
+def _text(description: str) -> dict[str, Any]:
+    return {"type": "string", "description": f"number and unit, e.g. '{description}'"}
 
 
 @cache
@@ -96,13 +100,13 @@ def measured_file_schema() -> dict[str, Any]:
                 "additionalProperties": False,
                 "minProperties": 1,
                 "properties": {
-                    "resistance": {"anyOf": [_quantity("0.0361 ohm"), {
+                    "resistance": {"anyOf": [_text("0.0361 ohm"), {
                         "type": "object", "required": ["value"], "additionalProperties": False,
                         "properties": {"value": {"type": ["number", "string"]},
                                        "unit": {"type": "string"},
                                        "basis": {"enum": list(RESISTANCE_BASES)},
                                        "temperature": temperature}}]},
-                    **{name: {"anyOf": [_quantity("0.91 mH"), {
+                    **{name: {"anyOf": [_text("0.91 mH"), {
                         "type": "object", "required": ["value"], "additionalProperties": False,
                         "properties": {"value": {"type": ["number", "string"]},
                                        "unit": {"type": "string"},
@@ -128,6 +132,9 @@ def _schema_problems(data: Any) -> list[str]:
     validator = jsonschema.Draft202012Validator(measured_file_schema())
     out = []
     for err in sorted(validator.iter_errors(data), key=lambda e: list(e.absolute_path))[:5]:
+        if err.validator == "anyOf" and err.context:  # the alternative that came closest:
+            # the deepest complaint that is not merely "not of this type"
+            err = max(err.context, key=lambda e: (e.validator != "type", len(e.absolute_path)))
         path = ".".join(str(p) for p in err.absolute_path) or "(file)"
         if err.validator == "oneOf" and path.endswith("emf"):
             message = "give either 'voltage' and 'speed', or 'constant'"
@@ -152,10 +159,22 @@ def _read(path: str, field: str, raw: Any, kind: str, declared: bool = False) ->
         raise MeasuredFileProblem(f"{path}: identification.{field}: {exc}") from None
 
 
+#: temperatures a winding or a magnet can have during an identification run, degC (wider
+#: than any insulation class allows, so that only a slip of unit or sign is refused)
+PLAUSIBLE_TEMPERATURE_C = (-50.0, 250.0)
+
+
 def _temperature(path: str, field: str, raw: Any) -> float | None:
     if raw is None:
         return None
-    return _read(path, field, raw, "temperature").value
+    kelvin = _read(path, field, raw, "temperature").value
+    low, high = PLAUSIBLE_TEMPERATURE_C
+    if not low <= kelvin - ZERO_CELSIUS <= high:
+        raise MeasuredFileProblem(
+            f"{path}: identification.{field}: {kelvin - ZERO_CELSIUS:.4g} °C is outside "
+            f"{low:g}…{high:g} °C, the range a winding or magnet can have during an "
+            "identification run")
+    return kelvin
 
 
 def _measured(path: str, name: str, raw: Any, kind: str, default_basis: str,

@@ -89,6 +89,34 @@ class ParameterSet:
                                     inputs, note))
 
 
+#: what a motor-data entry asks for, and the record field that would supply each when the
+#: sheet neither states nor determines it (plain names of our own)
+ENTRY_NEEDS: tuple[tuple[str, str, str], ...] = (
+    ("rated_voltage", "rated voltage", "rated.voltage"),
+    ("rated_current", "rated current", "rated.current"),
+    ("rated_frequency", "rated frequency", "rated.frequency"),
+    ("rated_speed", "rated speed", "rated.speed"),
+    ("rated_power", "rated power", "rated.power"),
+    ("rated_torque", "rated torque", "rated.torque"),
+    ("power_factor", "power factor cos φ", "rated.power_factor"),
+    ("pole_pairs", "pole pairs", "machine.poles"),
+    ("resistance_20c", "stator resistance", "circuit.resistance"),
+    ("ld", "d-axis inductance Ld", "circuit.ld"),
+    ("lq", "q-axis inductance Lq", "circuit.lq"),
+    ("ke_20c", "back-EMF constant Ke", "emf.constant"),
+    ("kt", "torque constant Kt", "torque_constant"),
+    ("inertia", "rotor inertia", "machine.inertia"),
+    ("max_speed", "maximum speed", "limits.max_speed"),
+    ("max_current", "maximum current", "limits.peak_current"),
+)
+
+
+def missing_parameters(parameters: list[Parameter]) -> list[tuple[str, str, str]]:
+    """(name, label, field that would supply it) of each entry the parameter set lacks."""
+    present = {p.name for p in parameters}
+    return [need for need in ENTRY_NEEDS if need[0] not in present]
+
+
 def parameter_set(sheet: Sheet) -> list[Parameter]:
     """The parameter set of a derived sheet, in the order a motor-data entry asks for it."""
     ps = ParameterSet(sheet)

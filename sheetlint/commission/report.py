@@ -18,6 +18,7 @@ from sheetlint.cautions import CAUTIONS
 from sheetlint.engine.core import Finding
 
 from .identification import Identification
+from .parameters import missing_parameters
 from .values import ChecklistItem, Parameter
 
 #: the cautions of commissioning: the usual ones, and the turning machine's live terminals
@@ -47,8 +48,11 @@ class CommissionResult:
         if ident.measured_path is not None:
             identification["measured"] = ident.measured_path
             identification["comparisons"] = [c.to_dict() for c in ident.comparisons]
+            identification["not_compared"] = list(ident.not_compared)
         return {"tool": "sheetlint", "version": __version__, "path": self.path, "id": self.id,
                 "parameters": [p.to_dict() for p in self.parameters],
+                "missing": [{"name": name, "label": label, "field": field}
+                            for name, label, field in missing_parameters(self.parameters)],
                 "checklist": [c.to_dict() for c in self.checklist],
                 "identification": identification,
                 "record_findings": {s: sum(1 for f in self.record_findings if f.severity == s
@@ -75,12 +79,19 @@ def _provenance(p: Parameter) -> str:
 def render_text(result: CommissionResult) -> str:
     lines = [f"{result.path} :: {result.id}", "", "Motor data for the converter "
              "(units as a motor-data entry asks for them)"]
-    width = max((len(p.label) for p in result.parameters), default=10)
+    labels = [p.label for p in (*result.parameters, *result.identification.expected)]
+    labels += [label for _, label, _ in missing_parameters(result.parameters)]
+    width = max(map(len, labels), default=10)
     for p in result.parameters:
         basis = f"  [{p.basis}]" if p.basis else ""
         lines.append(f"  {p.label:<{width}}  {p.text:>10} {_unit(p.unit):<7}{basis}")
         lines.append(f"  {'':<{width}}  {_provenance(p)}"
                      + (f"; {p.note}" if p.note and p.provenance != "stated" else ""))
+    missing = missing_parameters(result.parameters)
+    if missing:
+        lines += ["", "Not on the sheet, nor determined by it (ask the vendor, or let the "
+                  "identification find it)"]
+        lines += [f"  {label:<{width}}  field {field}" for _, label, field in missing]
     lines += ["", "Commissioning checklist"]
     for item in result.checklist:
         mark = {"ok": "ok       ", "attention": "ATTENTION", "not_checked": "not checked"}
@@ -106,7 +117,11 @@ def render_text(result: CommissionResult) -> str:
             lines.append(f"  {f.severity:<7} {f.rule}: {f.message}")
             if f.cause:
                 lines.append(f"          cause: {f.cause}")
-        if not ident.findings:
+        for note in ident.not_compared:
+            lines.append(f"  not compared: {note}")
+        if not ident.comparisons:
+            lines.append("  nothing compared: the sheet lacks every value measured")
+        elif not ident.findings:
             lines.append("  no findings: the identification agrees with the sheet")
     counts = result.to_dict()["record_findings"]
     lines += ["", f"Record check: {counts['error']} error(s), {counts['warning']} warning(s) "
@@ -127,6 +142,8 @@ def render_csv(result: CommissionResult) -> str:
     for p in result.parameters:
         writer.writerow(("parameter", p.name, p.label, p.text, p.unit, p.basis, p.provenance,
                          p.rule or "", " ".join(p.inputs), p.note or ""))
+    for name, label, field in missing_parameters(result.parameters):
+        writer.writerow(("missing", name, label, "", "", "", "", "", field, ""))
     for item in result.checklist:
         writer.writerow(("checklist", " ".join(item.rules), item.item, "", "", "", item.status,
                          "", "", " | ".join(item.messages)))
@@ -138,6 +155,9 @@ def render_csv(result: CommissionResult) -> str:
         writer.writerow(("measured", comp.quantity, f"admitted {comp.expected_low}–"
                          f"{comp.expected_high}", comp.measured, comp.unit, comp.basis,
                          comp.verdict, "", "", f"deviation {comp.deviation:+.4f}"))
+    for note in ident.not_compared:
+        writer.writerow(("not_compared", note.partition(":")[0], "", "", "", "", "", "", "",
+                         note))
     for f in ident.findings:
         writer.writerow(("finding", f.rule, f.severity, "", "", "", "", f.rule,
                          " ".join(f.fields), f.message + (f" Cause: {f.cause}" if f.cause
