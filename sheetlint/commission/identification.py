@@ -28,7 +28,7 @@ from sheetlint.physics.magnets import remanence_coefficient, remanence_factor
 from sheetlint.standards.thermal import resistance_at, temperature_constant
 from sheetlint.units import ROOM_TEMPERATURE, ZERO_CELSIUS
 
-from .measured import UNSTATED_TEMPERATURE_K, MeasuredFile, MeasuredValue
+from .measured import UNSTATED_TEMPERATURE_K, MeasuredCable, MeasuredFile, MeasuredValue
 from .values import DERIVED, Parameter, digits_for, number_text
 
 #: winding resistance: catalogue tolerance about ±5 % plus a converter's standstill
@@ -52,6 +52,11 @@ SOURCE_RESISTANCE = ("IEC 60034-1 and IEC 60034-2-1, resistance temperature corr
 SOURCE_INDUCTANCE = "band for saturation and test current: common practice"
 SOURCE_EMF = ("magnet makers' technical notes, reversible remanence coefficient (as quoted); "
               "band: common practice")
+
+#: resistivity of cable conductors at 20 degC [ohm·m]: annealed copper 1/58 ohm·mm²/m
+#: (IEC 60028, the International Annealed Copper Standard, from memory); hard-drawn aluminium
+#: 0.028264 ohm·mm²/m (IEC 60889, from memory)
+CABLE_RESISTIVITY = {"copper": 1.0 / 58.0 * 1e-6, "aluminium": 0.028264e-6}
 
 RULE_RESISTANCE = "identified-resistance"
 RULE_INDUCTANCE = "identified-inductance"
@@ -90,13 +95,15 @@ class Comparison:
     deviation: float  # measured over the nearest end of the admissible range, minus 1
     allowance: float
     verdict: str  # agrees | warning | error
+    note: str = ""  # what was done to the measured value before comparing
 
     def to_dict(self) -> dict[str, Any]:
         return {"quantity": self.quantity, "measured": float(self.measured),
                 "expected_low": float(self.expected_low),
                 "expected_high": float(self.expected_high), "unit": self.unit,
                 "basis": self.basis, "deviation": round(self.deviation, 6),
-                "allowance": round(self.allowance, 6), "verdict": self.verdict}
+                "allowance": round(self.allowance, 6), "verdict": self.verdict,
+                **({"note": self.note} if self.note else {})}
 
 
 @dataclass(slots=True)
@@ -265,10 +272,17 @@ def _temperature_range(stated: float | None) -> tuple[float, float, str]:
                        "plant-room interval is assumed)")
 
 
-def judge_resistance(sheet: Sheet, measured: MeasuredValue
+def cable_loop_resistance(cable: MeasuredCable) -> float:
+    """Resistance [ohm] of a cable between two motor terminals at 20 degC: two conductors,
+    R = 2·ρ·L/A (a terminal-to-terminal measurement runs out on one and back on another)."""
+    return 2.0 * CABLE_RESISTIVITY[cable.conductor] * cable.length / cable.cross_section
+
+
+def judge_resistance(sheet: Sheet, measured: MeasuredValue, cable: MeasuredCable | None = None
                      ) -> tuple[Comparison, Finding | None] | None:
     """Identified resistance against the sheet's at the measurement's winding temperature;
-    None when the sheet gives no resistance (or its conductor has no known constant)."""
+    None when the sheet gives no resistance (or its conductor has no known constant). A
+    stated cable's resistance is taken off first (on the measurement's basis)."""
     t_low, t_high, t_note = _temperature_range(measured.temperature)
     r_low = _resistance_at(sheet, _c(t_low))
     r_high = _resistance_at(sheet, _c(t_high))
@@ -280,14 +294,32 @@ def judge_resistance(sheet: Sheet, measured: MeasuredValue
     low, high = r_low * (1.0 - band), r_high * (1.0 + band)
     to_phase = BASIS_FACTOR["resistance"][measured.basis]
     value = measured.value * to_phase
+    cable_note = ""
+    if cable is not None:
+        loop = cable_loop_resistance(cable)  # line (terminal to terminal)
+        value -= loop * BASIS_FACTOR["resistance"]["line"]
+        cable_note = (f" after the stated cable ({cable.length:g} m of "
+                      f"{cable.cross_section * 1e6:g} mm² {cable.conductor}, "
+                      f"{loop * 1e3:.3g} mΩ line-to-line) is taken off")
+        if not value > 0.0:
+            comparison = Comparison("resistance", number_text(measured.value, 4), "0", "0",
+                                    "ohm", measured.basis, -1.0, 0.0, "error")
+            return comparison, _finding(
+                RULE_RESISTANCE, "error",
+                f"the stated cable's resistance ({loop * 1e3:.3g} mΩ line-to-line) is as "
+                f"large as the identified resistance {measured.value:.4g} Ω itself",
+                ("identification.cable", "identification.resistance"), "", "", -1.0,
+                "check the cable's length, cross-section and the resistance's unit",
+                SOURCE_RESISTANCE)
     miss = _miss(value, low, high)
     allowance = _allowance(low, high)
     verdict = _verdict(miss, allowance)
     shown = 1.0 / to_phase  # phase value × shown = value on the measured basis
     digits = digits_for(sheet_r.uncertainty)
-    comparison = Comparison("resistance", number_text(measured.value, digits),
+    comparison = Comparison("resistance", number_text(value * shown, digits),
                             number_text(low * shown, digits), number_text(high * shown, digits),
-                            "ohm", measured.basis, miss, allowance, verdict)
+                            "ohm", measured.basis, miss, allowance, verdict,
+                            cable_note.strip())
     if verdict == "agrees":
         return comparison, None
     slips = [Slip(1000.0, "mΩ written as Ω: the value agrees divided by 1000"),
@@ -309,23 +341,28 @@ def judge_resistance(sheet: Sheet, measured: MeasuredValue
     severity = _severity_with_slips(verdict, found, measured.basis_stated)
     if found:
         cause = "; or ".join(s.cause for s in found)
-    elif miss > 0.0:
+    elif miss > 0.0 and cable is None:
         excess = (value - r_high) * shown
         k = temperature_constant(sheet.attr("machine.conductor") or "copper") or 235.0
         t1 = _c(sheet_r.temperature if sheet_r.temperature is not None else ROOM_TEMPERATURE)
         warm = (k + t1) * value / sheet_r.value - k
         cause = (f"cable resistance included: the excess of {excess * 1e3:.3g} mΩ "
                  f"({measured.basis}) fits the resistance of a motor cable between converter "
-                 "and terminals, which an identification at the converter measures too; "
+                 "and terminals, which an identification at the converter measures too "
+                 "(state identification.cable to have it taken off); "
                  f"or the winding warmer than {t_note} (the value fits a winding at "
                  f"{warm:.0f} °C)")
+    elif miss > 0.0:
+        cause = ("above the sheet even without the stated cable: check the cable data, and "
+                 "whether the winding was warmer than stated")
     else:
         cause = ("below the sheet: a sheet resistance stated hot but labelled 20 °C, or a "
                  "line-to-line sheet value printed as per phase")
     if found and severity == "warning" and not measured.basis_stated:
         cause += "; the measured file does not state the basis: please state it"
     comparison.verdict = severity
-    message = (f"identified resistance {comparison.measured} Ω ({measured.basis}, {t_note}) "
+    message = (f"identified resistance {comparison.measured} Ω ({measured.basis}, {t_note})"
+               f"{cable_note} "
                f"is {miss:+.1%} outside the {comparison.expected_low}–"
                f"{comparison.expected_high} Ω the sheet gives at that temperature and basis "
                f"(235/225 rule, band ±{RESISTANCE_BAND:.0%} common practice)")
@@ -506,7 +543,7 @@ def identification(sheet: Sheet, measured: MeasuredFile | None = None,
     if measured is None:
         return result
     result.measured_path = measured.path
-    judged_r = (judge_resistance(sheet, measured.resistance)
+    judged_r = (judge_resistance(sheet, measured.resistance, measured.cable)
                 if measured.resistance is not None else None)
     if judged_r is not None:
         result.comparisons.append(judged_r[0])

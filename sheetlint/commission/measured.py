@@ -20,6 +20,7 @@ Every problem is a :class:`MeasuredFileProblem` whose message names the file and
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from functools import cache
 from typing import Any
@@ -30,6 +31,8 @@ from sheetlint.units import ROOM_TEMPERATURE, ZERO_CELSIUS, Reading, UnitProblem
 RESISTANCE_BASES = ("phase", "line", "delta_branch")
 INDUCTANCE_BASES = ("phase", "line")
 EMF_BASES = ("line_rms", "line_peak", "phase_rms", "phase_peak")
+CABLE_CONDUCTORS = ("copper", "aluminium")
+_AREA = re.compile(r"^\s*([0-9]+(?:\.[0-9]*)?|\.[0-9]+)\s*(mm2|mm²|mm\^2|mm\*\*2)\s*$")
 
 
 class MeasuredFileProblem(Exception):
@@ -63,6 +66,16 @@ class MeasuredEmf:
 
 
 @dataclass(frozen=True, slots=True)
+class MeasuredCable:
+    """The motor cable between converter and terminals that the identification measured
+    through: length [m], conductor cross-section [m²], conductor material."""
+
+    length: float
+    cross_section: float
+    conductor: str
+
+
+@dataclass(frozen=True, slots=True)
 class MeasuredFile:
     path: str
     machine: str
@@ -70,6 +83,7 @@ class MeasuredFile:
     ld: MeasuredValue | None
     lq: MeasuredValue | None
     emf: MeasuredEmf | None
+    cable: MeasuredCable | None = None
 
 
 def _quantity(description: str) -> dict[str, Any]:
@@ -112,6 +126,11 @@ def measured_file_schema() -> dict[str, Any]:
                                        "unit": {"type": "string"},
                                        "basis": {"enum": list(INDUCTANCE_BASES)}}}]}
                        for name in ("ld", "lq")},
+                    "cable": {"type": "object", "additionalProperties": False,
+                              "required": ["length", "cross_section"],
+                              "properties": {"length": _quantity("30 m"),
+                                             "cross_section": _quantity("50 mm2"),
+                                             "conductor": {"enum": list(CABLE_CONDUCTORS)}}},
                     "emf": {"type": "object", "additionalProperties": False,
                             "properties": {"voltage": _quantity("424 V"),
                                            "speed": _quantity("1000 rpm"),
@@ -230,7 +249,26 @@ def read_measured_file(path: str) -> MeasuredFile:
                           "basis" in raw_emf,
                           _temperature(path, "emf.magnet_temperature",
                                        raw_emf.get("magnet_temperature")))
-    return MeasuredFile(path, str(data["machine"]), resistance, ld, lq, emf)
+    return MeasuredFile(path, str(data["machine"]), resistance, ld, lq, emf,
+                        _cable(path, ident.get("cable")))
+
+
+def _cable(path: str, raw: Any) -> MeasuredCable | None:
+    if raw is None:
+        return None
+    length = _read(path, "cable.length", raw["length"], "length")
+    area_raw = raw["cross_section"]
+    if isinstance(area_raw, dict):
+        area_raw = f"{area_raw.get('value')} {area_raw.get('unit') or ''}"
+    match = _AREA.match(str(area_raw))
+    if match is None:
+        raise MeasuredFileProblem(f"{path}: identification.cable.cross_section: '{area_raw}' is "
+                                  "not a cross-section; write it like '50 mm2'")
+    area = float(match.group(1)) * 1e-6
+    if not (length.value > 0.0 and area > 0.0):
+        raise MeasuredFileProblem(f"{path}: identification.cable: length and cross-section "
+                                  "must be positive")
+    return MeasuredCable(length.value, area, raw.get("conductor") or "copper")
 
 
 #: the winding or magnet temperature assumed for a result whose temperature is unstated: the

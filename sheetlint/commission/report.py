@@ -112,7 +112,8 @@ def render_text(result: CommissionResult) -> str:
             lines.append(f"  {comp.quantity:<10} measured {comp.measured} {_unit(comp.unit)} "
                          f"({comp.basis}); sheet admits {comp.expected_low}–"
                          f"{comp.expected_high}: {comp.verdict}"
-                         + (f" ({comp.deviation:+.1%})" if comp.deviation else ""))
+                         + (f" ({comp.deviation:+.1%})" if comp.deviation else "")
+                         + (f"; {comp.note}" if comp.note else ""))
         for f in ident.findings:
             lines.append(f"  {f.severity:<7} {f.rule}: {f.message}")
             if f.cause:
@@ -154,7 +155,8 @@ def render_csv(result: CommissionResult) -> str:
     for comp in ident.comparisons:
         writer.writerow(("measured", comp.quantity, f"admitted {comp.expected_low}–"
                          f"{comp.expected_high}", comp.measured, comp.unit, comp.basis,
-                         comp.verdict, "", "", f"deviation {comp.deviation:+.4f}"))
+                         comp.verdict, "", "", f"deviation {comp.deviation:+.4f}"
+                         + (f"; {comp.note}" if comp.note else "")))
     for note in ident.not_compared:
         writer.writerow(("not_compared", note.partition(":")[0], "", "", "", "", "", "", "",
                          note))
