@@ -132,11 +132,11 @@ def test_a_rated_voltage_the_sheet_lacks_is_an_estimate_with_its_basis(tmp_path)
 
 # --- the checklist --------------------------------------------------------------------------------
 def test_checklist_flags_the_planted_overspeed_and_low_voltage():
-    items = {i.rules[0]: i for i in commission(
-        str(FIXTURES / "planted-emf-above-voltage.yaml")).checklist}
+    items = {rule: i for i in commission(
+        str(FIXTURES / "planted-emf-above-voltage.yaml")).checklist for rule in i.rules}
     assert items["overspeed-emf"].status == "attention"
     assert items["voltage-margin"].status == "attention"
-    consistent = {i.rules[0]: i for i in commission(PUMP_160K).checklist}
+    consistent = {rule: i for i in commission(PUMP_160K).checklist for rule in i.rules}
     assert consistent["overspeed-emf"].status == "ok"
     assert consistent["voltage-margin"].status == "ok"
     assert consistent["pull-out-margin"].status == "ok"
@@ -440,3 +440,30 @@ identification:
 """)
     with pytest.raises(CommissionProblem, match=r"identification\.cable\.cross_section"):
         commission(PUMP_160K, path)
+
+
+# --- doubts of the record check travel with the values ------------------------------------------
+PLANTED_KE = str(FIXTURES / "planted-ke-per-phase.yaml")  # Ke per phase, basis unstated
+
+
+def test_values_resting_on_a_doubted_field_carry_the_doubt():
+    p = _params(PLANTED_KE)
+    assert any("per phase" in d for d in p["ke_20c"].doubts)
+    assert any("per phase" in d for d in p["flux_linkage_20c"].doubts)
+    assert not p["resistance_20c"].doubts
+    items = {i.item.split(" (")[0]: i for i in commission(PLANTED_KE).checklist}
+    assert items["motor data the record check doubts"].status == "attention"
+    assert {i.status for i in commission(PUMP_160K).checklist if i.item.startswith(
+        "motor data the record check doubts")} == {"ok"}
+
+
+def test_an_unstated_ke_basis_gives_the_dc_link_speed_at_the_unsafe_end():
+    # DESIGN.md "Judgement": safety on the unsafe end; Ke's basis unstated admits a per-phase
+    # reading, √3 times higher. Ke = 71.3 V/krpm = 71.3/104.71976 = 0.680867 V·s/rad;
+    # DC link √2·400 V (REFERENCES §8): line reading ω = 400/0.680867 = 587.49 rad/s
+    # = 5610.1 r/min; per-phase reading 5610.1/√3 = 3239.0 r/min.
+    p = _params(PLANTED_KE)
+    assert p["dc_link_speed"].value == pytest.approx(5610, abs=0.5)
+    unsafe = p["dc_link_speed_if_per_phase"]
+    assert unsafe.value == pytest.approx(3239, abs=0.5) and unsafe.provenance == "estimate"
+    assert "dc_link_speed_if_per_phase" not in _params(PUMP_160K)  # basis stated there

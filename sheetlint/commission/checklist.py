@@ -43,7 +43,17 @@ def checklist(findings: list[Finding], parameters: list[Parameter]) -> list[Chec
         item = ChecklistItem(title, rules, status, messages)
         if rules == ("resistance-drop",):
             _standstill(item, parameters)
+        if rules == ("overspeed-emf",):
+            _unsafe_end(item, parameters)
         out.append(item)
+    doubted = [p for p in parameters if p.doubts]
+    rules_seen = tuple(sorted({d.split("(", 1)[1].split(")", 1)[0] for p in doubted
+                               for d in p.doubts}))
+    out.insert(0, ChecklistItem(
+        "motor data the record check doubts (confirm with the manufacturer before entering)",
+        rules_seen, "attention" if doubted else "ok",
+        [f"{p.label}: {d}" for p in doubted for d in p.doubts] or
+        ["no warning or error of the record check touches a value of the parameter set"]))
     return out
 
 
@@ -68,3 +78,23 @@ def _standstill(item: ChecklistItem, parameters: list[Parameter]) -> None:
             "speed")
         if item.status == "not_checked":
             item.status = "ok"
+
+
+def _unsafe_end(item: ChecklistItem, parameters: list[Parameter]) -> None:
+    """An unstated Ke basis: the maximum speed against the DC-link speed of the per-phase
+    reading (the unsafe end)."""
+    by_name = {p.name: p for p in parameters}
+    unsafe = by_name.get("dc_link_speed_if_per_phase")
+    if unsafe is None:
+        return
+    top = by_name.get("max_speed") or by_name.get("rated_speed")
+    if top is not None and top.value >= unsafe.value:
+        item.status = "attention"
+        item.messages.append(
+            f"the sheet does not state the basis of Ke: read per phase, the back-EMF reaches "
+            f"the DC link at {unsafe.text} r/min, at or below the {top.label} {top.text} r/min; "
+            "confirm the basis with the manufacturer before running there")
+    else:
+        item.messages.append(
+            f"the sheet does not state the basis of Ke: even read per phase (the unsafe end) "
+            f"the back-EMF reaches the DC link only at {unsafe.text} r/min")

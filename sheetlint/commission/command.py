@@ -55,7 +55,7 @@ def commission(path: str, measured_path: str | None = None, record_id: str | Non
     from .checklist import checklist
     from .identification import identification
     from .measured import MeasuredFileProblem, read_measured_file
-    from .parameters import parameter_set
+    from .parameters import parameter_set, with_doubts
     from .report import CommissionResult
 
     try:
@@ -88,7 +88,7 @@ def commission(path: str, measured_path: str | None = None, record_id: str | Non
     if measured is not None and measured.machine != result.id:
         raise CommissionProblem(f"{measured_path}: machine: '{measured.machine}' does not match "
                                 f"the record id '{result.id}' of {path}")
-    parameters = parameter_set(result.sheet)
+    parameters = with_doubts(parameter_set(result.sheet), result.findings, result.sheet)
     return CommissionResult(
         path, result.id, parameters, checklist(result.findings, parameters),
         identification(result.sheet, measured, test_temperature, test_speed), result.findings)

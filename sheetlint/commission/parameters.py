@@ -12,11 +12,12 @@ sheet (each derived value with its rule and inputs), from :mod:`sheetlint.physic
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from collections.abc import Callable
 
 from sheetlint.engine.core import ESTIMATE as ENGINE_ESTIMATE
-from sheetlint.engine.core import GIVEN, Known, Sheet
+from sheetlint.engine.core import GIVEN, Finding, Known, Sheet
 from sheetlint.physics.dq import (
     RPM,
     SQRT3,
@@ -261,6 +262,18 @@ def _converter_limits(ps: ParameterSet) -> None:
                          f"n = U_dc/(√2·Ke), cold magnets ({cold.note}); above it a converter "
                          "that stops switching lets the machine charge the DC link",
                          estimate=cold.is_estimate)
+            ke = sheet.get("emf.constant")
+            if ke is not None and ke.origin == GIVEN and not ke.basis_stated:
+                # the unsafe end of an unstated basis (DESIGN.md "Judgement" 3 and 4): Ke read
+                # per phase is √3 times the line value, and reaches the DC link √3 times sooner
+                ps.add_value("dc_link_speed_if_per_phase",
+                             "speed at which the back-EMF reaches the DC link if Ke is per "
+                             "phase", speed / RPM / SQRT3, cold.uncertainty, "r/min",
+                             MECHANICAL, "overspeed-emf", ("emf.constant_cold", *dc_fields),
+                             "the sheet does not state the basis of emf.constant; this is the "
+                             "unsafe end of its readings: confirm the basis with the "
+                             "manufacturer before running near this speed",
+                             estimate=True)
     inputs = model_inputs(sheet, COMMISSION_RULE)
     limit = converter_voltage_limit(sheet)
     current = sheet.get("rated.current")
@@ -294,3 +307,40 @@ def _converter_limits(ps: ParameterSet) -> None:
                      ("rated.current", "circuit.resistance_hot"),
                      "U = √3·I·R_phase,hot: at zero speed the impedance is the resistance alone",
                      estimate=hot_r.is_estimate)
+
+
+def _resting_on(sheet: Sheet, names: tuple[str, ...]) -> set[str]:
+    """The fields ``names`` rest on: themselves and, through the engine's derivations, the
+    inputs of each derived value, to the given fields."""
+    out: set[str] = set()
+    todo = list(names)
+    while todo:
+        name = todo.pop()
+        if name in out:
+            continue
+        out.add(name)
+        known = sheet.get(name)
+        if known is not None and known.origin != GIVEN:
+            todo.extend(known.inputs)
+    return out
+
+
+def with_doubts(parameters: list[Parameter], findings: list[Finding], sheet: Sheet
+                ) -> list[Parameter]:
+    """Each parameter with the warnings and errors of the record check on the fields it rests
+    on: a value a converter is given should not carry a doubt unseen."""
+    loud = [f for f in findings if f.severity in ("warning", "error") and f.suppressed is None]
+    if not loud:
+        return parameters
+    out = []
+    for parameter in parameters:
+        fields = _resting_on(sheet, parameter.inputs)
+        doubts = dict.fromkeys(parameter.doubts)  # in order, once each
+        for f in loud:
+            named = f.fields[:1] if f.fields else ()
+            if fields.intersection(named) or (f.cause and any(n in f.cause for n in fields)):
+                text = f.cause or f.message.split(". ")[0]
+                doubts[f"{f.severity} ({f.rule}): {text}"] = None
+        out.append(dataclasses.replace(parameter, doubts=tuple(doubts)) if doubts
+                   else parameter)
+    return out

@@ -87,6 +87,8 @@ def render_text(result: CommissionResult) -> str:
         lines.append(f"  {p.label:<{width}}  {p.text:>10} {_unit(p.unit):<7}{basis}")
         lines.append(f"  {'':<{width}}  {_provenance(p)}"
                      + (f"; {p.note}" if p.note and p.provenance != "stated" else ""))
+        for doubt in p.doubts:
+            lines.append(f"  {'':<{width}}  DOUBT: {doubt}")
     missing = missing_parameters(result.parameters)
     if missing:
         lines += ["", "Not on the sheet, nor determined by it (ask the vendor, or let the "
@@ -132,7 +134,7 @@ def render_text(result: CommissionResult) -> str:
 
 
 CSV_HEADER = ("section", "name", "label", "value", "unit", "basis", "provenance", "rule",
-              "from", "note")
+              "from", "note", "doubts")
 
 
 def render_csv(result: CommissionResult) -> str:
@@ -140,30 +142,31 @@ def render_csv(result: CommissionResult) -> str:
     out = io.StringIO()
     writer = csv.writer(out, lineterminator="\r\n")
     writer.writerow(CSV_HEADER)
+
+    def write(*cells: str) -> None:  # every row as wide as the header
+        writer.writerow((*cells, *[""] * (len(CSV_HEADER) - len(cells))))
+
     for p in result.parameters:
-        writer.writerow(("parameter", p.name, p.label, p.text, p.unit, p.basis, p.provenance,
-                         p.rule or "", " ".join(p.inputs), p.note or ""))
+        write("parameter", p.name, p.label, p.text, p.unit, p.basis, p.provenance, p.rule or "",
+              " ".join(p.inputs), p.note or "", " | ".join(p.doubts))
     for name, label, field in missing_parameters(result.parameters):
-        writer.writerow(("missing", name, label, "", "", "", "", "", field, ""))
+        write("missing", name, label, "", "", "", "", "", field)
     for item in result.checklist:
-        writer.writerow(("checklist", " ".join(item.rules), item.item, "", "", "", item.status,
-                         "", "", " | ".join(item.messages)))
+        write("checklist", " ".join(item.rules), item.item, "", "", "", item.status, "", "",
+              " | ".join(item.messages))
     ident = result.identification
     for p in ident.expected:
-        writer.writerow(("expected", p.name, p.label, p.text, p.unit, p.basis, p.provenance,
-                         p.rule or "", " ".join(p.inputs), p.note or ""))
+        write("expected", p.name, p.label, p.text, p.unit, p.basis, p.provenance, p.rule or "",
+              " ".join(p.inputs), p.note or "")
     for comp in ident.comparisons:
-        writer.writerow(("measured", comp.quantity, f"admitted {comp.expected_low}–"
-                         f"{comp.expected_high}", comp.measured, comp.unit, comp.basis,
-                         comp.verdict, "", "", f"deviation {comp.deviation:+.4f}"
-                         + (f"; {comp.note}" if comp.note else "")))
+        write("measured", comp.quantity, f"admitted {comp.expected_low}–{comp.expected_high}",
+              comp.measured, comp.unit, comp.basis, comp.verdict, "", "",
+              f"deviation {comp.deviation:+.4f}" + (f"; {comp.note}" if comp.note else ""))
     for note in ident.not_compared:
-        writer.writerow(("not_compared", note.partition(":")[0], "", "", "", "", "", "", "",
-                         note))
+        write("not_compared", note.partition(":")[0], "", "", "", "", "", "", "", note)
     for f in ident.findings:
-        writer.writerow(("finding", f.rule, f.severity, "", "", "", "", f.rule,
-                         " ".join(f.fields), f.message + (f" Cause: {f.cause}" if f.cause
-                                                          else "")))
+        write("finding", f.rule, f.severity, "", "", "", "", f.rule, " ".join(f.fields),
+              f.message + (f" Cause: {f.cause}" if f.cause else ""))
     for text in COMMISSION_CAUTIONS:
-        writer.writerow(("caution", "", "", "", "", "", "", "", "", text))
+        write("caution", "", "", "", "", "", "", "", "", text)
     return out.getvalue()

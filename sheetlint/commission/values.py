@@ -49,6 +49,8 @@ class Parameter:
     rule: str | None = None
     inputs: tuple[str, ...] = ()
     note: str | None = None
+    #: warnings and errors of the record check on the fields this value rests on
+    doubts: tuple[str, ...] = ()
 
     @property
     def value(self) -> float:
@@ -61,6 +63,8 @@ class Parameter:
                                "from": list(self.inputs)}
         if self.note:
             out["note"] = self.note
+        if self.doubts:
+            out["doubts"] = list(self.doubts)
         return out
 
 
