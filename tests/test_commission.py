@@ -467,3 +467,25 @@ def test_an_unstated_ke_basis_gives_the_dc_link_speed_at_the_unsafe_end():
     unsafe = p["dc_link_speed_if_per_phase"]
     assert unsafe.value == pytest.approx(3239, abs=0.5) and unsafe.provenance == "estimate"
     assert "dc_link_speed_if_per_phase" not in _params(PUMP_160K)  # basis stated there
+
+
+def test_measurements_on_other_bases_are_converted_before_comparing(tmp_path):
+    # DESIGN.md "Bases": phase of the equivalent star; terminal to terminal = 2 × phase.
+    # R_phase(24 °C) = 0.01778 · 259/255 = 0.018059 Ω → written 0.0181 Ω (phase);
+    # Ld line = 2 · 0.91 mH = 1.82 mH; back-EMF at 1000 r/min, 24 °C: 424.3 V line rms
+    # = 424.3 · √2/√3 = 424.3 · 0.816497 = 346.4 V peak per phase.
+    path = _measured_file(tmp_path, """machine: NHE-PM 160-15
+identification:
+  resistance: {value: 0.0181, unit: ohm, basis: phase, temperature: 24 °C}
+  ld: {value: 1.82, unit: mH, basis: line}
+  emf: {voltage: 346 V, speed: 1000 rpm, basis: phase_peak, magnet_temperature: 24 °C}
+""")
+    result = commission(PUMP_160K, path)
+    assert result.identification.findings == []
+    assert [c.basis for c in result.identification.comparisons] == ["phase", "line",
+                                                                    "phase_peak"]
+    # the same file with the inductance labelled phase is the line-as-phase slip
+    slipped = _measured_file(tmp_path, Path(path).read_text(encoding="utf-8")
+                             .replace("basis: line}", "basis: phase}"))
+    finding = commission(PUMP_160K, slipped).identification.findings[0]
+    assert finding.fields[0] == "identification.ld" and "line-to-line" in (finding.cause or "")

@@ -252,11 +252,11 @@ def _converter_limits(ps: ParameterSet) -> None:
     cold = sheet.get("emf.constant_cold")
     if dc is not None:
         u_dc, how, dc_fields = dc
-        ps.add_value("dc_link_voltage", "DC-link voltage held by a stopped converter", u_dc,
+        ps.add_value("dc_link_voltage", "DC link held by a stopped converter", u_dc,
                      1e-4, "V", "DC", "overspeed-emf", tuple(dc_fields), how)
         if cold is not None and cold.value > 0.0:
             speed = speed_at_back_emf(cold.value, u_dc)
-            ps.add_value("dc_link_speed", "speed at which the back-EMF reaches the DC link",
+            ps.add_value("dc_link_speed", "back-EMF reaches the DC link at",
                          speed / RPM, cold.uncertainty, "r/min", MECHANICAL, "overspeed-emf",
                          ("emf.constant_cold", *dc_fields),
                          f"n = U_dc/(√2·Ke), cold magnets ({cold.note}); above it a converter "
@@ -267,9 +267,9 @@ def _converter_limits(ps: ParameterSet) -> None:
                 # the unsafe end of an unstated basis (DESIGN.md "Judgement" 3 and 4): Ke read
                 # per phase is √3 times the line value, and reaches the DC link √3 times sooner
                 ps.add_value("dc_link_speed_if_per_phase",
-                             "speed at which the back-EMF reaches the DC link if Ke is per "
-                             "phase", speed / RPM / SQRT3, cold.uncertainty, "r/min",
-                             MECHANICAL, "overspeed-emf", ("emf.constant_cold", *dc_fields),
+                             "back-EMF reaches the DC link, Ke per phase, at",
+                             speed / RPM / SQRT3, cold.uncertainty, "r/min", MECHANICAL,
+                             "overspeed-emf", ("emf.constant_cold", *dc_fields),
                              "the sheet does not state the basis of emf.constant; this is the "
                              "unsafe end of its readings: confirm the basis with the "
                              "manufacturer before running near this speed",
@@ -287,7 +287,7 @@ def _converter_limits(ps: ParameterSet) -> None:
             reach = max_speed_at_current(machine, current.value, limit.line_rms)
             if math.isfinite(reach):
                 ps.add_value("field_weakening_reach",
-                             "highest speed at rated current within the voltage limit",
+                             "field-weakening reach at rated current",
                              reach / RPM, inputs.uncertainty + current.uncertainty, "r/min",
                              MECHANICAL, "field-weakening-speed",
                              ("rated.current", *limit.fields, *inputs.fields),
@@ -295,8 +295,8 @@ def _converter_limits(ps: ParameterSet) -> None:
                              estimate=inputs.estimate)
             else:
                 ps.items.append(Parameter(
-                    "field_weakening_reach", "highest speed at rated current within the "
-                    "voltage limit", "0", "r/min", MECHANICAL, DERIVED, "field-weakening-speed",
+                    "field_weakening_reach", "field-weakening reach at rated current", "0",
+                    "r/min", MECHANICAL, DERIVED, "field-weakening-speed",
                     ("rated.current", *limit.fields, *inputs.fields),
                     "no limit in this model: rated current exceeds ψ/Ld"))
     hot_r = sheet.get("circuit.resistance_hot")
