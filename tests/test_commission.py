@@ -489,3 +489,27 @@ identification:
                              .replace("basis: line}", "basis: phase}"))
     finding = commission(PUMP_160K, slipped).identification.findings[0]
     assert finding.fields[0] == "identification.ld" and "line-to-line" in (finding.cause or "")
+
+
+def test_the_committed_measured_file_schema_is_the_one_the_code_uses():
+    committed = json.loads((ROOT / "sheetlint" / "commission" / "measured-file.schema.json")
+                           .read_text(encoding="utf-8"))
+    assert committed == json.loads(json.dumps(measured_file_schema())), (
+        "regenerate it: python -m sheetlint.commission.measured > "
+        "sheetlint/commission/measured-file.schema.json")
+
+
+def test_the_measured_file_picks_its_record_from_a_file_of_several(tmp_path):
+    import yaml
+
+    records = [yaml.safe_load(Path(p).read_text(encoding="utf-8"))
+               for p in (DOSING_5K5, PUMP_160K)]
+    catalogue = tmp_path / "catalogue.yaml"
+    catalogue.write_text(yaml.safe_dump({"records": records}, allow_unicode=True),
+                         encoding="utf-8")
+    measured = str(MEASURED / "consistent-nhe-pm-160-15-at-24c.measured")
+    result = commission(str(catalogue), measured)
+    assert result.id == "NHE-PM 160-15" and result.identification.findings == []
+    assert commission(str(catalogue), record_id="AQ-DP 5.5-30").id == "AQ-DP 5.5-30"
+    with pytest.raises(CommissionProblem, match="holds 2 records; choose one with --id"):
+        commission(str(catalogue))

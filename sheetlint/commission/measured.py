@@ -274,3 +274,15 @@ def _cable(path: str, raw: Any) -> MeasuredCable | None:
 #: the winding or magnet temperature assumed for a result whose temperature is unstated: the
 #: interval a standstill identification in a plant room usually sees (common practice)
 UNSTATED_TEMPERATURE_K = (ROOM_TEMPERATURE - 10.0, ROOM_TEMPERATURE + 20.0)
+
+
+def main() -> int:
+    """Print the measured file's JSON Schema: ``python -m sheetlint.commission.measured``."""
+    import json
+
+    print(json.dumps(measured_file_schema(), indent=2, ensure_ascii=False))
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
