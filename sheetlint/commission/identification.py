@@ -213,7 +213,9 @@ def expected_values(sheet: Sheet, conditions: Conditions) -> list[Parameter]:
                 "emf_voltage", f"back-EMF at {conditions.test_speed_rpm:g} r/min, {tm:g} °C",
                 number_text(ke * conditions.test_speed_rpm * RPM, digits), "V",
                 "line-to-line rms", DERIVED, "emf-constant", ("emf.constant",),
-                f"E = Ke·ω; {note}"))
+                f"E = Ke·ω; {note}; peak line-to-line "
+                f"{SQRT2 * ke * conditions.test_speed_rpm * RPM:.0f} V at the terminals of the "
+                "turning machine, converter on or off"))
     return out
 
 
@@ -280,9 +282,15 @@ def cable_loop_resistance(cable: MeasuredCable) -> float:
 
 def judge_resistance(sheet: Sheet, measured: MeasuredValue, cable: MeasuredCable | None = None
                      ) -> tuple[Comparison, Finding | None] | None:
-    """Identified resistance against the sheet's at the measurement's winding temperature;
-    None when the sheet gives no resistance (or its conductor has no known constant). A
-    stated cable's resistance is taken off first (on the measurement's basis)."""
+    """Identified resistance against the sheet's at the measurement's winding temperature.
+
+    .. math:: R_{phase}(\\theta) = R_1\\,\\frac{k + \\theta}{k + \\theta_1}, \\qquad
+        R_{line} = 2\\,R_{phase}, \\quad R_{\\Delta\\,branch} = 3\\,R_{phase}
+
+    admitted within ±``RESISTANCE_BAND`` plus the written precision of both values (k = 235
+    copper, 225 aluminium: IEC 60034-1, from memory). None when the sheet gives no
+    resistance (or its conductor has no known constant). A stated cable's resistance is taken
+    off first (on the measurement's basis)."""
     t_low, t_high, t_note = _temperature_range(measured.temperature)
     r_low = _resistance_at(sheet, _c(t_low))
     r_high = _resistance_at(sheet, _c(t_high))
@@ -384,7 +392,9 @@ def _inductance_range(sheet: Sheet, axis: str, measured: MeasuredValue
 
 def judge_inductances(sheet: Sheet, ld: MeasuredValue | None, lq: MeasuredValue | None
                       ) -> tuple[list[Comparison], list[Finding]]:
-    """Identified Ld and Lq against the sheet within the saturation and test-current band."""
+    """Identified Ld and Lq against the sheet within the saturation and test-current band:
+    ``INDUCTANCE_BAND[0]·L ≤ L_identified ≤ INDUCTANCE_BAND[1]·L`` per phase (a line value
+    halved first), widened by the written precision (band: common practice)."""
     comparisons: list[Comparison] = []
     findings: list[Finding] = []
     ranges: dict[str, tuple[float, float]] = {}
@@ -461,7 +471,12 @@ def judge_inductances(sheet: Sheet, ld: MeasuredValue | None, lq: MeasuredValue 
 
 
 def judge_emf(sheet: Sheet, measured: MeasuredFile) -> tuple[Comparison, Finding | None] | None:
-    """Identified back-EMF against the sheet's Ke at the measurement's magnet temperature."""
+    """Identified back-EMF against the sheet's Ke at the measurement's magnet temperature.
+
+    .. math:: K_e(T) = K_e(T_1)\\,(1 + \\alpha\\,(T - T_1)), \\qquad E_{LL,rms} = K_e\\,\\omega
+
+    admitted within ±``EMF_BAND`` plus the written precision (α by magnet material, magnet
+    makers' notes as quoted; band: common practice)."""
     emf = measured.emf
     ke_known = sheet.get("emf.constant")
     if emf is None or ke_known is None:
