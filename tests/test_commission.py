@@ -513,3 +513,33 @@ def test_the_measured_file_picks_its_record_from_a_file_of_several(tmp_path):
     assert commission(str(catalogue), record_id="AQ-DP 5.5-30").id == "AQ-DP 5.5-30"
     with pytest.raises(CommissionProblem, match="holds 2 records; choose one with --id"):
         commission(str(catalogue))
+
+
+def _variant(tmp_path: Path, source: str, old: str, new: str, name: str) -> str:
+    text = Path(source).read_text(encoding="utf-8")
+    assert old in text
+    path = tmp_path / name
+    path.write_text(text.replace(old, new), encoding="utf-8")
+    return str(path)
+
+
+def test_an_aluminium_winding_follows_the_225_rule(tmp_path):
+    # IEC 60034-1 temperature correction, k = 225 for aluminium (from memory; REFERENCES §5):
+    # R_phase(30 °C) = 0.01778 · (225 + 30)/(225 + 20) = 0.01778 · 255/245 = 0.018506 Ω;
+    # terminal to terminal 0.037011 Ω (with k = 235 it would be 0.036815 Ω).
+    record = _variant(tmp_path, PUMP_160K, "  connection: star\n",
+                      "  connection: star\n  conductor: aluminium\n", "alu.yaml")
+    expected = {p.name: p for p in commission(record, test_temperature=30.0)
+                .identification.expected}
+    assert expected["resistance_line"].value == pytest.approx(0.03701, abs=0.000005)
+
+
+def test_a_samarium_cobalt_back_emf_follows_its_own_coefficient(tmp_path):
+    # SmCo −0.035 %/K (magnet makers' notes as quoted, REFERENCES §6): at 40 °C
+    # E(1000 r/min) = 426.2 · (1 − 0.00035 · 20) = 426.2 · 0.993 = 423.22 V line rms;
+    # NdFeB would give 426.2 · (1 − 0.0011 · 20) = 416.82 V.
+    record = _variant(tmp_path, PUMP_160K, "  connection: star\n",
+                      "  connection: star\n  magnet: SmCo\n", "smco.yaml")
+    expected = {p.name: p for p in commission(record, test_temperature=40.0,
+                                              test_speed=1000.0).identification.expected}
+    assert expected["emf_voltage"].value == pytest.approx(423.2, abs=0.05)
