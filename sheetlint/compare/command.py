@@ -24,7 +24,8 @@ def add_parser(subparsers: Any) -> argparse.ArgumentParser:
                         help="offer files (records, PDFs, spreadsheets)")
     parser.add_argument("--requirement", default=None, metavar="FILE",
                         help="purchase requirement (YAML or JSON)")
-    parser.add_argument("--format", choices=FORMATS, default="text")
+    parser.add_argument("--format", choices=FORMATS, default="text",
+                        help="output format (default: text; xlsx needs -o)")
     parser.add_argument("-o", "--output", default=None, metavar="OUT",
                         help="write here (needed for xlsx; default: standard output)")
     parser.add_argument("--rank-by", default=None, metavar="FIGURE",

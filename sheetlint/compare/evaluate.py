@@ -615,8 +615,8 @@ def evaluate_plain(sheet: Sheet, name: str, field_name: str, limit: float, unit:
 
 def evaluate_consistency(result: RecordResult) -> RequirementResult:
     """The sheet's own check: errors leave the offer's figures unreliable (``unknown``)."""
-    errors = [f for f in result.findings if f.severity == "error" and f.suppressed is None]
-    warnings = [f for f in result.findings if f.severity == "warning" and f.suppressed is None]
+    errors = [f for f in result.findings if f.severity == "error" and f.accepted is None]
+    warnings = [f for f in result.findings if f.severity == "warning" and f.accepted is None]
     if errors:
         fields = sorted({name for f in errors for name in f.fields})
         return RequirementResult("consistency", UNKNOWN, f"{len(errors)} error(s) on the sheet "
@@ -683,7 +683,7 @@ def evaluate_offer(result: RecordResult, req: Requirement) -> OfferEvaluation:
         results.append(evaluate_plain(sheet, "inertia", "machine.inertia", req.inertia,
                                       "kg·m²"))
     contradicted = {name for f in result.findings if f.severity == "error"
-                    and f.suppressed is None for name in f.fields}
+                    and f.accepted is None for name in f.fields}
     _downgrade_contradicted(results, contradicted, sheet)
     for index, figures in enumerate(duties):
         for key, value, unit in (("current", figures.current, "A"),

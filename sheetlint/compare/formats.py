@@ -109,7 +109,7 @@ def _findings_count(offer: Offer) -> dict[str, int]:
     counts = {"error": 0, "warning": 0, "info": 0}
     if offer.result is not None:
         for f in offer.result.findings:
-            if f.suppressed is None:
+            if f.accepted is None:
                 counts[f.severity] += 1
     return counts
 

@@ -120,7 +120,7 @@ def questions_for(offer: Offer, req: Requirement | None) -> list[str]:
                 "or a table of values"] if offer.error else []
     sheet: Sheet = result.sheet
     for finding in result.findings:
-        if finding.severity in ("error", "warning") and finding.suppressed is None:
+        if finding.severity in ("error", "warning") and finding.accepted is None:
             out.append(_finding_question(finding))
     if evaluation is None:
         return list(dict.fromkeys(out))
