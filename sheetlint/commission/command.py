@@ -33,7 +33,8 @@ def add_parser(subparsers: Any) -> argparse.ArgumentParser:
                         help="identification results to check against the sheet")
     parser.add_argument("--id", default=None, dest="record_id",
                         help="the record to use when the file holds several")
-    parser.add_argument("--format", choices=FORMATS, default="text")
+    parser.add_argument("--format", choices=FORMATS, default="text",
+                        help="output format (default: text)")
     parser.add_argument("--test-speed", type=float, default=None, metavar="RPM",
                         help="speed of the back-EMF the identification should find "
                              "(default: the measured file's, else the rated speed)")
