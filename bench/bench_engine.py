@@ -9,9 +9,9 @@ caches. The measurements take turns in blocks of 250 records, so that a shared m
 drifting speed falls on all of them alike; the median ratio of the blocks is printed beside the
 whole run's. Prints figures; asserts nothing.
 
-Run: python bench/bench_engine.py [N] [--select RULE,RULE,...]
+Run: python bench/bench_engine.py [N] [--only RULE,RULE,...]
 
-``--select`` times the engine with only those rules checked, as ``sheetlint check --select``
+``--only`` times the engine with only those rules checked, as ``sheetlint check --only``
 runs it (rules left out are not checked; monomial relations still are, for the cause
 diagnosis); validation alone is the same either way.
 """
@@ -57,10 +57,10 @@ def make_records(n: int, seed: int = 7) -> list[dict]:
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("n", nargs="?", type=int, default=10_000, help="number of records")
-    parser.add_argument("--select", help="comma-separated rules to check (default: all)")
+    parser.add_argument("--only", help="comma-separated rules to check (default: all)")
     args = parser.parse_args()
     n = args.n
-    settings = (Settings(select=frozenset(args.select.split(","))) if args.select
+    settings = (Settings(only=frozenset(args.only.split(","))) if args.only
                 else Settings())
     records = make_records(n)
     check_record(RawRecord(copy.deepcopy(records[0]), None, ""))  # warm caches and imports
@@ -102,7 +102,7 @@ def main() -> None:
         block_ratios.append(block_validate / block_engine)
 
     print(f"records:                     {n}"
-          + (f" (rules checked: {args.select})" if args.select else ""))
+          + (f" (rules checked: {args.only})" if args.only else ""))
     print(f"pydantic validation alone:   {n / validate_s:10.0f} records/s ({validate_s:.2f} s)")
     print(f"engine, raw to findings:     {n / engine_s:10.0f} records/s ({engine_s:.2f} s)")
     print(f"engine / validation ratio:   {validate_s / engine_s:10.3f}  (budget >= 0.333; "

@@ -9,7 +9,7 @@ on 20 records, switches instrumentation on with ``callgrind_control`` around the
 only (validated records in, findings out), and prints the count divided by the number of
 records. Needs valgrind (Debian package ``valgrind``); about 30 s for the default 256 records.
 
-Run: python bench/instructions_per_record.py [N] [--select RULE,RULE,...]
+Run: python bench/instructions_per_record.py [N] [--only RULE,RULE,...]
 """
 
 from __future__ import annotations
@@ -31,23 +31,23 @@ def outer(argv: list[str]) -> None:
         sys.exit("instructions_per_record: valgrind (with callgrind_control) is not installed")
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("n", nargs="?", type=int, default=256, help="number of records")
-    parser.add_argument("--select", help="comma-separated rules to check (default: all)")
+    parser.add_argument("--only", help="comma-separated rules to check (default: all)")
     args = parser.parse_args(argv)
     with tempfile.TemporaryDirectory() as tmp:
         command = ["valgrind", "--tool=callgrind", "--instr-atstart=no",
                    f"--callgrind-out-file={tmp}/callgrind.out", sys.executable, __file__, INNER,
-                   str(args.n), args.select or ""]
+                   str(args.n), args.only or ""]
         run = subprocess.run(command, capture_output=True, text=True, check=False)
     found = re.search(r"Collected : (\d+)", run.stderr)
     if run.returncode != 0 or found is None:
         sys.exit(f"instructions_per_record: the callgrind run failed:\n{run.stderr[-2000:]}")
     print(f"records:                    {args.n}"
-          + (f" (rules checked: {args.select})" if args.select else ""))
+          + (f" (rules checked: {args.only})" if args.only else ""))
     print(f"instructions per record:    {int(found.group(1)) / args.n:,.0f} "
           "(engine after validation)")
 
 
-def inner(n: int, select: str) -> None:
+def inner(n: int, only: str) -> None:
     sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
     from bench_engine import make_records
 
@@ -55,7 +55,7 @@ def inner(n: int, select: str) -> None:
     from sheetlint.engine.run import run_engine
     from sheetlint.model import MachineRecord
 
-    settings = Settings(select=frozenset(select.split(","))) if select else Settings()
+    settings = Settings(only=frozenset(only.split(","))) if only else Settings()
     records = [MachineRecord.model_validate(copy.deepcopy(r)) for r in make_records(n)]
     for record in records[:20]:  # imports, caches and the interpreter's specialisation
         run_engine(record, settings)

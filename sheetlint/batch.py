@@ -12,6 +12,7 @@ the same order and with the same content as a serial run, except that ``RecordRe
 
 from __future__ import annotations
 
+import fnmatch
 import math
 import os
 import signal
@@ -40,6 +41,66 @@ class FileResult:
     path: str
     error: str | None = None
     records: list[RecordResult] = field(default_factory=list)
+    #: why a readable file holding no machine record was left out (no exit status effect)
+    skipped: str | None = None
+
+
+#: top-level keys of which a machine record has at least one (DESIGN.md "Data contract")
+RECORD_KEYS = frozenset({"id", "records", "maker", "machine", "rated", "emf", "circuit",
+                         "limits", "supply", "torque_constant", "efficiency_class", "points",
+                         "accepted", "dynamics"})
+
+
+def not_a_record(records: list[RawRecord]) -> str | None:
+    """The reason to skip a JSON/YAML file that is plainly something else (a CI workflow, a
+    ``package.json``): one top-level mapping with keys, none of them a record's. ``None`` for
+    anything that may be meant as a record (it is then checked, and a bad one is an error)."""
+    if len(records) != 1 or records[0].index is not None:
+        return None
+    data = records[0].data
+    if not isinstance(data, dict) or not data or any(
+            isinstance(k, str) and k in RECORD_KEYS for k in data):
+        return None
+    keys = ", ".join(sorted(str(k) for k in data)[:4])
+    return f"holds no machine record (top-level keys: {keys})"
+
+
+def foreign_yaml(path: str) -> str | None:
+    """The reason to skip a YAML file that our loader refused but whose top level is a mapping
+    with none of a record's keys (a CI workflow: its ``on:`` key reads as a boolean). Reads
+    only the top-level keys, as text, without building the document (no alias expansion)."""
+    if not path.lower().endswith((".yaml", ".yml")):
+        return None
+    try:
+        if os.path.getsize(path) > MAX_BYTES:
+            return None
+        import yaml
+
+        with open(path, encoding="utf-8") as handle:
+            node = yaml.compose(handle, Loader=yaml.BaseLoader)
+    except Exception:  # anything unreadable stays the loader's error
+        return None
+    if not isinstance(node, yaml.MappingNode) or not node.value:
+        return None
+    keys = [k.value for k, _ in node.value if isinstance(k, yaml.ScalarNode)]
+    if len(keys) != len(node.value) or any(k in RECORD_KEYS for k in keys):
+        return None
+    return f"holds no machine record (top-level keys: {', '.join(sorted(keys)[:4])})"
+
+
+def excluded(path: str, patterns: Iterable[str]) -> bool:
+    """True when ``path`` matches one of the globs (``exclude`` / ``--exclude``): against its
+    path relative to the current folder (``*`` crosses folders, ``**/`` may match none), and a
+    glob without ``/`` also against the file name alone."""
+    posix = relative(path).replace(os.sep, "/")
+    name = posix.rsplit("/", 1)[-1]
+    for pattern in patterns:
+        if fnmatch.fnmatchcase(posix, pattern) or (
+                pattern.startswith("**/") and fnmatch.fnmatchcase(posix, pattern[3:])):
+            return True
+        if "/" not in pattern and fnmatch.fnmatchcase(name, pattern):
+            return True
+    return False
 
 
 class TimeLimitExceeded(BaseException):
@@ -50,10 +111,12 @@ class TimeLimitExceeded(BaseException):
     """
 
 
-def collect_files(paths: Iterable[str]) -> tuple[list[str], list[FileResult]]:
+def collect_files(paths: Iterable[str], exclude: Iterable[str] = ()
+                  ) -> tuple[list[str], list[FileResult]]:
     """Data files under ``paths`` (folders recursively, sorted), and results for bad paths.
 
-    Hidden files and folders inside a given folder are skipped. A path that does not exist, a
+    Hidden files and folders inside a given folder are skipped, and so is every file, named
+    or found, that matches a glob of ``exclude``. A path that does not exist, a
     folder that cannot be listed and a path that is neither file nor folder each give a
     :class:`FileResult` with an error; the other paths are still collected.
     """
@@ -72,6 +135,9 @@ def collect_files(paths: Iterable[str]) -> tuple[list[str], list[FileResult]]:
                 problems.append(FileResult(str(raw), f"{raw}: no such file or folder"))
         except (OSError, ValueError) as exc:  # e.g. a name too long, an embedded NUL
             problems.append(FileResult(str(raw), f"{raw}: cannot open ({_reason(exc)})"))
+    patterns = tuple(exclude)
+    if patterns:
+        files = [f for f in files if not excluded(f, patterns)]
     return files, problems
 
 
@@ -150,7 +216,14 @@ def _check_file(path: str, settings: Settings | None, max_bytes: int | None) -> 
     try:
         records = raw_records(path, max_bytes)
     except InputProblem as exc:
+        reason = foreign_yaml(path)
+        if reason is not None:
+            return FileResult(path, skipped=reason)
         return FileResult(path, str(exc))
+    if not path.lower().endswith(".pdf"):
+        reason = not_a_record(records)
+        if reason is not None:
+            return FileResult(path, skipped=reason)
     result = FileResult(path)
     for raw in records:
         try:
@@ -236,20 +309,21 @@ def effective_time_limit(time_limit: float | None) -> float | None:
 
 def check_paths(paths: Iterable[str], settings: Settings | None = None, *,
                 jobs: int | None = None, time_limit: float | None = None,
-                max_bytes: int | None = None,
+                max_bytes: int | None = None, exclude: Iterable[str] = (),
                 render: Callable[[FileResult], Any] | None = None) -> Iterator[Any]:
     """Check every data file under ``paths``, in order.
 
     ``jobs``: worker processes (None: workers only when the batch is large enough to repay
     their start; 1: serial; 0 or less: one per CPU); ``time_limit``: seconds per file (None:
-    30 s; 0: no limit); ``max_bytes``: size limit per file (None: 20 MB). Paths that do not
-    exist come first, then the files in the order :func:`collect_files` gives.
+    30 s; 0: no limit); ``max_bytes``: size limit per file (None: 20 MB); ``exclude``: globs
+    of files to leave out. Paths that do not exist come first, then the files in the order
+    :func:`collect_files` gives.
 
     ``render``: applied to each :class:`FileResult` in the process that checked the file (a
     streaming report's ``part``), and its value yielded instead of the result; it must be
     picklable and give the same value in any process.
     """
-    files, problems = collect_files(paths)
+    files, problems = collect_files(paths, exclude)
     for problem in problems:
         yield render_safely(render, problem)
     limit = effective_time_limit(time_limit)
@@ -296,7 +370,7 @@ def exit_status(results: list[FileResult], fail_on: str = "error") -> int:
         for r in f.records:
             if r.error:
                 return 2
-            if any(SEVERITY_RANK[x.severity] >= threshold and x.suppressed is None
+            if any(SEVERITY_RANK[x.severity] >= threshold and x.accepted is None
                    for x in r.findings):
                 failed = True
     return 1 if failed else 0

@@ -29,3 +29,15 @@ FINDING_CAUTION = ("Engineering aid, not an approval: confirm machine and conver
 #: rules whose warnings concern safety: a report that shows one ends with the cautions
 SAFETY_RULES: tuple[str, ...] = ("overspeed-emf", "voltage-limit", "short-circuit-current",
                                  "field-weakening-speed")
+
+#: the one cautions line closing every text report (the full cautions: README, HTML report,
+#: ``sheetlint rules overspeed-emf``)
+SHORT_CAUTION = ("Caution: findings are engineering aids, not approvals; a turning PM machine "
+                 "has voltage at its terminals even with the converter off. Full cautions: "
+                 "README, the HTML report, `sheetlint rules overspeed-emf`.")
+
+
+def safety_pointer(rule: str) -> str:
+    """The short pointer a safety finding carries in the text report."""
+    return (f"safety: read the cautions (README, HTML report, `sheetlint rules {rule}`) "
+            "before acting on this")

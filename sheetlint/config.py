@@ -1,32 +1,34 @@
-"""Configuration: defaults, a configuration file and command-line options, merged in one place.
+"""Configuration: defaults, a settings file and command-line options, merged in one place.
 
 A project configures sheetlint in ``sheetlint.toml`` (keys at the top level) or in
 ``pyproject.toml`` under ``[tool.sheetlint]``::
 
     [tool.sheetlint]
-    select = ["power-torque-speed", "voltage-margin"]   # run only these (default: all)
-    ignore = ["resistance-drop"]                        # never run these
+    only = ["power-torque-speed", "voltage-margin"]     # check only these (default: all)
+    skip = ["resistance-drop"]                          # never check these
+    exclude = ["archive/**", "**/package.json"]         # files a folder walk leaves out
     fail-on = "warning"                                 # lowest severity giving exit status 1
 
-    [tool.sheetlint.rules.voltage-margin]
+    [tool.sheetlint.severity]                           # raise or lower a rule
+    overspeed-emf = "error"
+
+    [tool.sheetlint.tuning.voltage-margin]              # a rule's tunable values
     band = [0.05, 0.08]
 
-    [tool.sheetlint.rules.magnet-temperature]
-    alpha = -0.0012
-
 Discovery: from the current directory upwards, the first directory holding a ``sheetlint.toml``,
-or a ``pyproject.toml`` with a ``[tool.sheetlint]`` table, gives the configuration; within one
-directory ``sheetlint.toml`` comes first. ``--config FILE`` names the file instead,
-``--no-config`` ignores every file.
+or a ``pyproject.toml`` with a ``[tool.sheetlint]`` table, gives the settings; within one
+directory ``sheetlint.toml`` comes first. ``--settings FILE`` names the file instead,
+``--no-settings`` ignores every file.
 
-Precedence: a command-line option replaces the file's value of the same name (``--select`` the
-file's ``select``, ``--ignore`` its ``ignore``, ``--fail-on`` its ``fail-on``); the file
-replaces the defaults. Per-rule options (``rules.<rule-id>.<name>``) go to
-``Settings.options[rule][name]``, where relations read them with
-``sheet.option(rule, name, default)``.
+Precedence: a command-line option replaces the file's value of the same name (``--only`` the
+file's ``only``, ``--skip`` its ``skip``, ``--fail-on`` its ``fail-on``); ``--exclude`` adds
+to the file's ``exclude``; the file replaces the defaults. Tuning values
+(``tuning.<rule-id>.<name>``) go to ``Settings.options[rule][name]``, where relations read
+them with ``sheet.option(rule, name, default)``.
 
-A configuration file that cannot be read or has a wrong key or value raises
-:class:`ConfigError` with a message naming the file; unknown rule ids are warnings.
+A settings file that cannot be read, has a wrong key or value, or names a rule that does not
+exist raises :class:`ConfigError` with a message naming the file and the key; so does an
+unknown rule given with ``--only`` or ``--skip`` (a typo must never switch every rule off).
 """
 
 from __future__ import annotations
@@ -45,7 +47,8 @@ SHEETLINT_TOML = "sheetlint.toml"
 PYPROJECT_TOML = "pyproject.toml"
 DEFAULT_FAIL_ON = "error"
 FAIL_ON_CHOICES = ("error", "warning", "info")
-TOP_LEVEL_KEYS = ("select", "ignore", "fail-on", "rules")
+TOP_LEVEL_KEYS = ("only", "skip", "exclude", "fail-on", "severity", "tuning")
+SEVERITY_CHOICES = ("error", "warning", "info")
 #: rule ids that findings may carry without a relation in the registry
 ENGINE_RULES = ("unreadable",)
 
@@ -63,9 +66,11 @@ class FileConfig:
     """What one configuration file says (``None``: the file does not set it)."""
 
     path: str | None = None
-    select: frozenset[str] | None = None
-    ignore: frozenset[str] | None = None
+    only: frozenset[str] | None = None
+    skip: frozenset[str] | None = None
+    exclude: tuple[str, ...] = ()
     fail_on: str | None = None
+    severity: dict[str, str] = field(default_factory=dict)
     options: dict[str, dict[str, OptionValue]] = field(default_factory=dict)
 
 
@@ -77,6 +82,8 @@ class Resolved:
     fail_on: str = DEFAULT_FAIL_ON
     config_path: str | None = None
     warnings: list[str] = field(default_factory=list)
+    #: globs of files to leave out (the file's ``exclude`` plus ``--exclude``)
+    exclude: tuple[str, ...] = ()
 
 
 # --- discovery --------------------------------------------------------------------------------
@@ -151,16 +158,20 @@ def _parse_table(name: str, table: dict[str, Any], prefix: str) -> FileConfig:
     config = FileConfig(path=name)
     for key, value in table.items():
         where = f"{name}: {prefix}{key}"
-        if key == "select":
-            config.select = frozenset(_rule_list(where, value))
-        elif key == "ignore":
-            config.ignore = frozenset(_rule_list(where, value))
+        if key == "only":
+            config.only = frozenset(_rule_list(where, value))
+        elif key == "skip":
+            config.skip = frozenset(_rule_list(where, value))
+        elif key == "exclude":
+            config.exclude = tuple(_glob_list(where, value))
+        elif key == "severity":
+            config.severity = _severity_table(where, value)
         elif key == "fail-on":
             if value not in FAIL_ON_CHOICES:
                 raise ConfigError(f"{where}: must be one of {', '.join(FAIL_ON_CHOICES)} "
                                   f"(found {value!r})")
             config.fail_on = value
-        elif key == "rules":
+        elif key == "tuning":
             config.options = _rule_options(where, value)
         else:
             hint = ""
@@ -184,10 +195,31 @@ def _rule_list(where: str, value: Any) -> list[str]:
     return [v.strip() for v in value]
 
 
+def _glob_list(where: str, value: Any) -> list[str]:
+    if isinstance(value, str):
+        value = [value]
+    if not isinstance(value, list) or not all(isinstance(v, str) and v.strip() for v in value):
+        raise ConfigError(f"{where}: must be a list of file globs, e.g. [\"archive/**\"]")
+    return [v.strip() for v in value]
+
+
+def _severity_table(where: str, value: Any) -> dict[str, str]:
+    if not isinstance(value, dict):
+        raise ConfigError(f"{where}: must be a table rule = level, e.g. "
+                          "overspeed-emf = \"error\"")
+    out = {}
+    for rule, level in value.items():
+        if level not in SEVERITY_CHOICES:
+            raise ConfigError(f"{where}.{rule}: must be one of {', '.join(SEVERITY_CHOICES)} "
+                              f"(found {level!r})")
+        out[rule] = level
+    return out
+
+
 def _rule_options(where: str, value: Any) -> dict[str, dict[str, OptionValue]]:
     if not isinstance(value, dict):
         raise ConfigError(f"{where}: must be a table of rule tables, e.g. "
-                          "[tool.sheetlint.rules.voltage-margin]")
+                          "[tool.sheetlint.tuning.voltage-margin]")
     out: dict[str, dict[str, OptionValue]] = {}
     for rule, options in value.items():
         if not isinstance(options, dict):
@@ -215,25 +247,27 @@ def _option_value(where: str, value: Any) -> OptionValue:
 
 # --- merging ----------------------------------------------------------------------------------
 def resolve(*, config: str | None = None, use_config: bool = True,
-            select: Iterable[str] | None = None, ignore: Iterable[str] | None = None,
-            fail_on: str | None = None, start: str | Path | None = None,
+            only: Iterable[str] | None = None, skip: Iterable[str] | None = None,
+            fail_on: str | None = None, exclude: Iterable[str] | None = None,
+            start: str | Path | None = None,
             known_rules: Callable[[], Iterable[str]] | None = None,
             known_options: OptionDeclarations | None = None) -> Resolved:
-    """Merge defaults, the configuration file and command-line values (the command line wins).
+    """Merge defaults, the settings file and command-line values (the command line wins).
 
     Parameters
     ----------
     config : str, optional
-        ``--config FILE``; when absent the file is found from ``start`` upwards.
+        ``--settings FILE``; when absent the file is found from ``start`` upwards.
     use_config : bool
-        False for ``--no-config``: defaults and command line only.
-    select, ignore, fail_on
+        False for ``--no-settings``: defaults and command line only.
+    only, skip, fail_on
         Command-line values; ``None`` where the option was not given.
+    exclude : iterable of str, optional
+        ``--exclude`` globs, added to the file's ``exclude``.
     start : path, optional
         Where discovery starts (default: the current directory).
     known_rules : callable, optional
-        Returns the rule ids that exist (default: the relation registry); ids not among them
-        become warnings.
+        Returns the rule ids that exist (default: the relation registry).
     known_options : callable, optional
         Returns each rule's declared options (default: the relation registry): a value of
         the wrong kind raises ConfigError, an undeclared option becomes a warning.
@@ -241,7 +275,7 @@ def resolve(*, config: str | None = None, use_config: bool = True,
     Raises
     ------
     ConfigError
-        The configuration file cannot be read or is wrong.
+        The settings file cannot be read or is wrong, or a rule named anywhere does not exist.
     """
     file_config = FileConfig()
     if config is not None:
@@ -252,19 +286,21 @@ def resolve(*, config: str | None = None, use_config: bool = True,
             file_config = read_config(found)
     if fail_on is not None and fail_on not in SEVERITY_RANK:
         raise ConfigError(f"--fail-on must be one of {', '.join(FAIL_ON_CHOICES)}")
-    cli_select = frozenset(select) if select is not None else None
-    cli_ignore = frozenset(ignore) if ignore is not None else None
-    # an empty --select means every rule, whatever the file selects
-    chosen_select = (cli_select or None) if cli_select is not None else file_config.select
-    chosen_ignore = cli_ignore if cli_ignore is not None else file_config.ignore
+    cli_only = frozenset(only) if only is not None else None
+    cli_skip = frozenset(skip) if skip is not None else None
+    _refuse_unknown_rules(file_config, cli_only, cli_skip, known_rules)
+    # an empty --only means every rule, whatever the file chooses
+    chosen_only = (cli_only or None) if cli_only is not None else file_config.only
+    chosen_skip = cli_skip if cli_skip is not None else file_config.skip
     resolved = Resolved(
-        Settings(select=chosen_select, ignore=chosen_ignore or frozenset(),
-                 options={rule: dict(opts) for rule, opts in file_config.options.items()}),
+        Settings(only=chosen_only, skip=chosen_skip or frozenset(),
+                 options={rule: dict(opts) for rule, opts in file_config.options.items()},
+                 severity=dict(file_config.severity)),
         fail_on or file_config.fail_on or DEFAULT_FAIL_ON,
         file_config.path,
     )
-    resolved.warnings = _unknown_rule_warnings(file_config, cli_select, cli_ignore, known_rules)
-    resolved.warnings += _check_rule_options(file_config, known_options)
+    resolved.exclude = (*file_config.exclude, *(exclude or ()))
+    resolved.warnings = _check_rule_options(file_config, known_options)
     return resolved
 
 
@@ -283,10 +319,10 @@ def _check_rule_options(file_config: FileConfig,
     warnings = []
     for rule, options in file_config.options.items():
         if rule not in declared:
-            continue  # an unknown rule is warned about already
+            continue  # an unknown rule is refused already
         own = declared[rule]
         for name, value in options.items():
-            key = f"{where}: rules.{rule}.{name}"
+            key = f"{where}: tuning.{rule}.{name}"
             spec = own.get(name)
             if spec is None:
                 close = difflib.get_close_matches(name, list(own), n=1)
@@ -312,36 +348,41 @@ def _fits(spec: RuleOption, value: OptionValue) -> bool:
             and number(value[1]) and value[0] <= value[1])  # type: ignore[operator]
 
 
-def _unknown_rule_warnings(file_config: FileConfig, cli_select: frozenset[str] | None,
-                           cli_ignore: frozenset[str] | None,
-                           known_rules: Callable[[], Iterable[str]] | None) -> list[str]:
+def _refuse_unknown_rules(file_config: FileConfig, cli_only: frozenset[str] | None,
+                         cli_skip: frozenset[str] | None,
+                         known_rules: Callable[[], Iterable[str]] | None) -> None:
+    """Raise ConfigError for the first rule id, in the file or on the command line, that does
+    not exist (with the closest known id as a hint)."""
     mentioned: list[tuple[str, str]] = []
     where = file_config.path or ""
-    for rule in sorted(file_config.select or ()):
-        mentioned.append((rule, f"{where}: select"))
-    for rule in sorted(file_config.ignore or ()):
-        mentioned.append((rule, f"{where}: ignore"))
+    for rule in sorted(file_config.only or ()):
+        mentioned.append((rule, f"{where}: only"))
+    for rule in sorted(file_config.skip or ()):
+        mentioned.append((rule, f"{where}: skip"))
+    for rule in file_config.severity:
+        mentioned.append((rule, f"{where}: severity.{rule}"))
     for rule in file_config.options:
-        mentioned.append((rule, f"{where}: rules.{rule}"))
-    for rule in sorted(cli_select or ()):
-        mentioned.append((rule, "--select"))
-    for rule in sorted(cli_ignore or ()):
-        mentioned.append((rule, "--ignore"))
+        mentioned.append((rule, f"{where}: tuning.{rule}"))
+    for rule in sorted(cli_only or ()):
+        mentioned.append((rule, "--only"))
+    for rule in sorted(cli_skip or ()):
+        mentioned.append((rule, "--skip"))
     if not mentioned:
-        return []
+        return
     if known_rules is None:
         from sheetlint.relations.registry import rule_ids
 
         known_rules = rule_ids
     known = sorted({*known_rules(), *ENGINE_RULES})
-    warnings = []
+    problems = []
     for rule, place in mentioned:
         if rule in known:
             continue
         close = difflib.get_close_matches(rule, known, n=1)
         hint = f" (did you mean '{close[0]}'?)" if close else ""
-        warnings.append(f"{place}: unknown rule '{rule}'{hint}; it has no effect")
-    return warnings
+        problems.append(f"{place}: unknown rule '{rule}'{hint}")
+    if problems:
+        raise ConfigError("; ".join(problems) + "; `sheetlint rules` lists the rules")
 
 
 def split_rule_list(text: str | None) -> frozenset[str] | None:

@@ -36,6 +36,7 @@ KINDS: dict[str, Kind] = {
              restricted=True),
         Kind("torque_constant", "N*m/A", "N*m/A", 1.0, restricted=True),
         Kind("flux_linkage", "Wb", "Wb", 1.0, restricted=True),
+        Kind("motor_constant", "N*m/W**0.5", "N*m/√W", 1.0, restricted=True),
         Kind("temperature", "K", "degC", 1.0),
         Kind("temperature_difference", "K", "K", 1.0),
         Kind("mass", "kg", "kg", 1.0),
@@ -122,6 +123,16 @@ for _spec in (
     _f("limits.max_speed", "speed", True, "maximum mechanical speed"),
     _f("limits.peak_torque", "torque", False, "short-time torque"),
     _f("limits.peak_current", "current", False, "short-time current"),
+    _f("limits.no_load_speed", "speed", True, "speed with no load at a stated supply"),
+    _f("limits.no_load_speed.supply", "voltage", True, "supply voltage of the no-load speed "
+       "(marked DC or AC)"),
+    _f("limits.demagnetisation_current", "current", False, "current above which the magnets "
+       "may be demagnetised"),
+    _f("dynamics.electrical_time_constant", "time", False, "electrical time constant L/R"),
+    _f("dynamics.mechanical_time_constant", "time", False, "mechanical time constant J/Km²"),
+    _f("dynamics.motor_constant", "motor_constant", False, "motor constant "
+       "T/√(copper loss)"),
+    _f("dynamics.thermal_time_constant", "time", False, "winding thermal time constant"),
     _f("supply.mains_voltage", "voltage", True, "converter mains voltage"),
     _f("supply.dc_link_voltage", "voltage", True, "converter DC-link voltage"),
 ):
@@ -167,8 +178,19 @@ def spec_for(path: str) -> FieldSpec | None:
     return None
 
 
+#: fields shown in a unit of their own rather than their kind's: path -> (unit, SI per unit)
+DISPLAY_OVERRIDES: dict[str, tuple[str, float]] = {
+    "dynamics.electrical_time_constant": ("ms", 1e-3),
+    "dynamics.mechanical_time_constant": ("ms", 1e-3),
+    "dynamics.thermal_time_constant": ("min", 60.0),
+}
+
+
 def display_quantity(path: str, si_value: float, celsius: str = "degC") -> tuple[float, str]:
     """An SI value of ``path`` in its display unit: (value, unit); temperatures in ``celsius``."""
+    override = DISPLAY_OVERRIDES.get(path)
+    if override is not None:
+        return si_value / override[1], override[0]
     spec = spec_for(path)
     kind = KINDS[spec.kind] if spec else KINDS["ratio"]
     if kind.name == "temperature":

@@ -29,13 +29,17 @@ class Measured:
     duration: float | None = None  # seconds, on limits
     extras: dict[str, Measured] = field(default_factory=dict)  # e.g. losses breakdown, min
     unknown_qualifiers: tuple[str, ...] = ()
+    #: written by ``sheetlint derive`` (``derived: true``): the engine works it out again
+    derived: bool = False
 
     @property
     def value(self) -> float:
         return self.reading.value
 
 
-_QUALIFIERS_COMMON = {"value", "unit", "basis", "note", "source"}
+_QUALIFIERS_COMMON = {"value", "unit", "basis", "note", "source", "derived", "rule", "from"}
+#: further qualifiers ``sheetlint derive`` writes on a derived value, for the reader
+_QUALIFIERS_OF_DERIVED = {"temperature", "magnet_temperature", "speed"}
 
 
 def _number_schema() -> dict[str, Any]:
@@ -44,7 +48,12 @@ def _number_schema() -> dict[str, Any]:
 
 def _physical_schema(kind: str, qualifiers: dict[str, str]) -> dict[str, Any]:
     props: dict[str, Any] = {"value": _number_schema(), "unit": {"type": "string"},
-                             "note": {"type": "string"}, "source": {"type": "string"}}
+                             "note": {"type": "string"}, "source": {"type": "string"},
+                             "derived": {"type": "boolean",
+                                         "description": "written by sheetlint derive; "
+                                                        "worked out again when checked"},
+                             "rule": {"type": "string"},
+                             "from": {"type": "array", "items": {"type": "string"}}}
     if kind in BASES:
         props["basis"] = {"enum": list(BASES[kind])}
     for name, _kind in qualifiers.items():
@@ -66,6 +75,7 @@ def _example(kind: str) -> str:
             "torque_constant": "1.85 N*m/A", "flux_linkage": "0.25 Wb",
             "temperature": "20 °C", "temperature_difference": "80 K", "mass": "120 kg",
             "inertia": "0.05 kg*m**2", "length": "1000 m", "time": "60 s",
+            "motor_constant": "0.25 N*m/√W",
             "count": "8"}.get(kind, "")
 
 
@@ -109,6 +119,10 @@ def _read_object(raw: dict[str, Any], kind: str, declared: bool,
     except UnitProblem as exc:
         raise ValueError(str(exc)) from None
     measured = Measured(reading)
+    derived = raw.get("derived", False)
+    if not isinstance(derived, bool):
+        raise ValueError(f"'derived' must be true or false, found {derived!r}")
+    measured.derived = derived
     basis = raw.get("basis")
     if basis is not None:
         allowed = BASES.get(kind, ())
@@ -120,8 +134,11 @@ def _read_object(raw: dict[str, Any], kind: str, declared: bool,
         if name in _QUALIFIERS_COMMON:
             continue
         sub_kind = qualifiers.get(name)
+        if isinstance(sub, dict) and sub.get("derived") is True:
+            continue  # a derived part (a loss breakdown): worked out again
         if sub_kind is None:
-            unknown.append(name)
+            if not (derived and name in _QUALIFIERS_OF_DERIVED):
+                unknown.append(name)
             continue
         try:
             sub_reading = _read_qualifier(sub, sub_kind)
@@ -277,6 +294,20 @@ class Limits(Section):
     max_speed: Physical("limits.max_speed")  # type: ignore[valid-type]
     peak_torque: Physical("limits.peak_torque", duration="time")  # type: ignore[valid-type]
     peak_current: Physical("limits.peak_current", duration="time")  # type: ignore[valid-type]
+    no_load_speed: Physical("limits.no_load_speed", supply="voltage")  # type: ignore[valid-type]
+    demagnetisation_current: Physical(  # type: ignore[valid-type]
+        "limits.demagnetisation_current", magnet_temperature="temperature")
+
+
+class Dynamics(Section):
+    """Servo catalogue constants: time constants and the motor constant."""
+
+    electrical_time_constant: Physical(  # type: ignore[valid-type]
+        "dynamics.electrical_time_constant")
+    mechanical_time_constant: Physical(  # type: ignore[valid-type]
+        "dynamics.mechanical_time_constant")
+    motor_constant: Physical("dynamics.motor_constant")  # type: ignore[valid-type]
+    thermal_time_constant: Physical("dynamics.thermal_time_constant")  # type: ignore[valid-type]
 
 
 class Supply(Section):
@@ -296,13 +327,15 @@ def _claim(value: Any) -> Any:
     return value
 
 
-class Suppression(BaseModel):
-    """A finding the record's author has reviewed: the rule id and a mandatory reason."""
+class Acceptance(BaseModel):
+    """A deviation the record's author has reviewed and accepts: the rule id, the fields it
+    concerns (all of them must be among the finding's fields; none: any finding of the rule)
+    and a mandatory reason."""
 
     model_config = ConfigDict(extra="forbid")
-    rule: str
+    rule: Annotated[str, Field(min_length=1)]
+    fields: list[Annotated[str, Field(min_length=1)]] = Field(default_factory=list)
     reason: Annotated[str, Field(min_length=1)]
-    field: str | None = None
 
 
 class MachineRecord(BaseModel):
@@ -318,6 +351,7 @@ class MachineRecord(BaseModel):
     circuit: Circuit = Field(default_factory=Circuit)
     limits: Limits = Field(default_factory=Limits)
     supply: Supply = Field(default_factory=Supply)
+    dynamics: Dynamics = Field(default_factory=Dynamics)
     efficiency_class: Annotated[
         EfficiencyClaim | None, BeforeValidator(_claim),
         WithJsonSchema({"anyOf": [
@@ -327,12 +361,12 @@ class MachineRecord(BaseModel):
              "required": ["value"]},
             {"type": "null"}]})] = None
     points: list[Point] = Field(default_factory=list)
-    suppress: list[Suppression] = Field(
+    accepted: list[Acceptance] = Field(
         default_factory=list,
-        description="findings reviewed by the record's author: rule id and a reason")
+        description="known deviations the record's author accepts: rule, fields and a reason")
 
 
-SECTIONS = ("machine", "rated", "emf", "circuit", "limits", "supply")
+SECTIONS = ("machine", "rated", "emf", "circuit", "limits", "supply", "dynamics")
 
 
 def record_json_schema() -> dict[str, Any]:

@@ -14,7 +14,7 @@ GOOD = {"id": "TEST-1", "rated": {"power": "15 kW", "speed": "1500 rpm", "torque
 def _check(tmp_path, capsys, text, name="m.json"):
     path = tmp_path / name
     path.write_text(text)
-    status = main(["check", str(path)])
+    status = main(["check", "--notes", str(path)])
     captured = capsys.readouterr()
     assert "Traceback" not in captured.err + captured.out
     return status, captured.out + captured.err

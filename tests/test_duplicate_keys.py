@@ -81,7 +81,7 @@ def test_duplicate_key_is_an_error_naming_both_lines_and_the_value_checked(tmp_p
 
 def test_the_yaml_repeat_reaches_the_json_output(tmp_path, capsys):
     path = _write(tmp_path, "dk.yaml", YAML_TWICE)
-    status = main(["check", "--no-config", "--format", "json", path])
+    status = main(["check", "--no-settings", "--format", "json", path])
     out = json.loads(capsys.readouterr().out)
     assert status == 1
     finding = next(f for f in out["files"][0]["records"][0]["findings"]
@@ -116,14 +116,14 @@ def test_an_unreadable_record_still_names_its_repeated_keys(tmp_path):
 
 def test_the_rule_can_be_left_out_like_any_other(tmp_path, capsys):
     path = _write(tmp_path, "dk.json", JSON_TWICE)
-    main(["check", "--no-config", "--format", "json", "--ignore", "duplicate-key", path])
+    main(["check", "--no-settings", "--format", "json", "--skip", "duplicate-key", path])
     out = json.loads(capsys.readouterr().out)
     assert not [f for f in out["files"][0]["records"][0]["findings"]
                 if f["rule"] == "duplicate-key"]
 
 
 def test_the_rule_is_documented(capsys):
-    assert main(["explain", "duplicate-key"]) == 0
+    assert main(["rules", "duplicate-key"]) == 0
     assert "RFC 8259" in capsys.readouterr().out
 
 

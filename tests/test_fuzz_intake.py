@@ -26,7 +26,7 @@ FUZZ = settings(max_examples=120, deadline=None,
 
 KEYS = st.one_of(
     st.sampled_from(["id", "records", "rated", "machine", "power", "value", "unit", "basis",
-                     "poles", "speed", "torque", "emf", "constant", "points", "suppress", "rule",
+                     "poles", "speed", "torque", "emf", "constant", "points", "accepted", "rule",
                      "reason", "temperature", "losses", "copper", "efficiency_class", "maker"]),
     st.text(max_size=8),
 )

@@ -24,7 +24,7 @@ FIXTURES = Path(__file__).resolve().parent.parent / "fixtures"
 
 
 def _run(capsys: pytest.CaptureFixture[str], *args: str) -> tuple[int, str, str]:
-    status = main(["check", *args])
+    status = main(["check", "--notes", *args])
     captured = capsys.readouterr()
     assert "Traceback" not in captured.out + captured.err
     return status, captured.out, captured.err

@@ -14,9 +14,9 @@ from sheetlint.relations.machine import (
     FieldWeakeningSpeed,
     OverspeedEmf,
     PullOutMargin,
-    ShortCircuitCurrent,
     VoltageLimitRelation,
 )
+from sheetlint.relations.servo import ShortCircuitCurrent
 
 IN_REGISTRY_ORDER = (DqOperatingPoint, VoltageLimitRelation, FieldWeakeningSpeed, OverspeedEmf,
                      PullOutMargin, ShortCircuitCurrent)

@@ -291,7 +291,7 @@ def test_cli_streams_the_same_bytes_with_and_without_workers(tmp_path):
     outputs = []
     for jobs in ("1", "2"):
         out = tmp_path / f"report-{jobs}.sarif"
-        status = main(["check", "--no-config", "--format", "sarif", "--jobs", jobs,
+        status = main(["check", "--no-settings", "--format", "sarif", "--jobs", jobs,
                        "-o", str(out), str(folder)])
         assert status == 2
         outputs.append(out.read_bytes())
@@ -299,14 +299,27 @@ def test_cli_streams_the_same_bytes_with_and_without_workers(tmp_path):
 
 
 def test_quiet_text_skips_info_lines_yet_prints_the_same_report(tmp_path, capsys):
-    # errors and warnings keep their lines; only the infos, which --quiet hides, lose them
+    # errors and warnings keep their lines; only the infos, which the default text output
+    # hides (shown with --notes), lose them
     folder = _repository(tmp_path, 40)
-    status = main(["check", "--no-config", "--quiet", "--jobs", "1", str(folder)])
+    status = main(["check", "--no-settings", "--jobs", "1", str(folder)])
     quiet = capsys.readouterr().out
     results = list(check_paths([str(folder)], jobs=1))
-    assert quiet == text.render(results, show_info=False) + "\n"
+    assert quiet == text.render(results) + "\n"
     assert status == exit_status(results) == 2
-    assert ".json:" in quiet  # findings shown with their lines
+    assert "  line " in quiet  # findings shown with their lines
+
+
+def test_notes_text_streams_the_same_report_with_info_lines_and_coverage(tmp_path, capsys):
+    from sheetlint.engine.core import Settings
+
+    folder = _repository(tmp_path, 40)
+    status = main(["check", "--no-settings", "--notes", "--jobs", "2", str(folder)])
+    shown = capsys.readouterr().out
+    results = list(check_paths([str(folder)], Settings(coverage=True), jobs=1))
+    assert shown == text.render(results, notes=True) + "\n"
+    assert status == exit_status(results) == 2
+    assert "    note " in shown and "coverage: " in shown
 
 
 def test_settings_without_info_lines_leave_other_findings_located(tmp_path):
@@ -338,7 +351,26 @@ def test_a_new_report_file_inside_the_checked_folder_is_not_read_as_data(tmp_pat
                                                                           monkeypatch):
     monkeypatch.chdir(tmp_path)
     shutil.copy(FIXTURES / "consistent-spm-5k5-dosing-pump.yaml", tmp_path / "m.yaml")
-    status = main(["check", "--no-config", "--format", "json", "-o", "report.json", "."])
+    status = main(["check", "--no-settings", "--format", "json", "-o", "report.json", "."])
     document = json.loads((tmp_path / "report.json").read_text(encoding="utf-8"))
     assert [f["path"] for f in document["files"]] == ["m.yaml"]
     assert status in (0, 1)
+
+
+def test_the_report_does_not_depend_on_string_hashing(tmp_path):
+    # a worker may hash strings with another seed than the parent (spawn, another machine):
+    # findings grouped under a cause must come out in the same order whatever the seed
+    import subprocess
+    import sys
+
+    outputs = []
+    for seed in ("1", "2"):
+        done = subprocess.run(
+            [sys.executable, "-m", "sheetlint", "check", "--no-settings", "--no-progress",
+             "--format", "json", "--jobs", "1", str(FIXTURES)],
+            capture_output=True, text=True, env={**os.environ, "PYTHONHASHSEED": seed},
+            check=False)
+        assert done.returncode == 1, done.stderr
+        outputs.append(done.stdout)
+    assert '"consequences": ["' in outputs[0]
+    assert outputs[0] == outputs[1]

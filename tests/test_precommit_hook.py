@@ -5,6 +5,7 @@ hook with ``language: system`` pointing at the installed ``sheetlint``."""
 from __future__ import annotations
 
 import os
+import re
 import shutil
 import subprocess
 import sys
@@ -91,6 +92,7 @@ def test_manifest_is_valid_for_pre_commit(tmp_path: Path):
     assert result.returncode == 0, result.stdout + result.stderr
     hook = _hook("sheetlint")
     assert hook["entry"] == "sheetlint check"
+    assert hook["require_serial"] is True and hook["verbose"] is True
     assert set(hook["types_or"]) == {"json", "yaml"}
 
 
@@ -116,3 +118,103 @@ def test_hook_rejects_a_commit_with_a_planted_error(repo: tuple[Path, dict[str, 
     assert "power-torque-speed" in output and "motors/bad.yaml" in output
     log = _run([GIT, "log", "--oneline"], work, env).stdout.splitlines()
     assert len(log) == 1  # the bad commit did not happen
+
+
+# --- the manifest as a user gets it: pre-commit try-repo against a local clone -------------------
+FIXTURES = ROOT / "fixtures"
+WORKFLOW = "name: data checks\non: [push]\njobs:\n  check:\n    runs-on: ubuntu-latest\n"
+
+
+@pytest.fixture
+def hook_clone(tmp_path: Path) -> tuple[Path, dict[str, str]]:
+    """A clone of this repository whose manifest runs the installed sheetlint (no network:
+    ``language: system`` instead of building a Python environment from the registry)."""
+    env = _env(tmp_path)
+    if not (ROOT / ".git").exists():
+        pytest.skip("not a git checkout")
+    clone = tmp_path / "sheetlint-clone"
+    result = _run([GIT, "clone", "-q", "--depth", "1", f"file://{ROOT}", str(clone)], tmp_path,
+                  env)
+    if result.returncode != 0:
+        pytest.skip(f"cannot clone this checkout: {result.stderr.strip()[:200]}")
+    # the working tree's manifest (it may be newer than the last commit)
+    hooks = yaml.safe_load(MANIFEST.read_text(encoding="utf-8"))
+    for hook in hooks:
+        command = hook["entry"].split(" ", 1)
+        hook["entry"] = " ".join([SHEETLINT, *command[1:]])
+        hook["language"] = "system"
+    (clone / ".pre-commit-hooks.yaml").write_text(yaml.safe_dump(hooks), encoding="utf-8")
+    assert _run([GIT, "commit", "-q", "-am", "run the installed sheetlint"], clone,
+                env).returncode == 0
+    return clone, env
+
+
+def _motor_repository(tmp_path: Path, env: dict[str, str], copies: int) -> Path:
+    work = tmp_path / "motor-data"
+    (work / "motors").mkdir(parents=True)
+    assert _run([GIT, "init", "-q"], work, env).returncode == 0
+    # a safety warning (overspeed-emf) and no error: the hook passes and must still show it
+    warning = (FIXTURES / "planted-emf-above-voltage.yaml").read_text(encoding="utf-8")
+    (work / "motors" / "hv.yaml").write_text(warning, encoding="utf-8")
+    for i in range(copies):
+        (work / "motors" / f"good-{i:02d}.yaml").write_text(
+            GOOD.replace("PMX-15", f"PMX-15-{i:02d}"), encoding="utf-8")
+    (work / "package.json").write_text('{"name": "motor-data-site", "version": "1.0.0"}',
+                                       encoding="utf-8")
+    (work / "ci").mkdir()
+    (work / "ci" / "checks.yml").write_text(WORKFLOW, encoding="utf-8")
+    assert _run([GIT, "add", "."], work, env).returncode == 0
+    return work
+
+
+def test_try_repo_passes_shows_the_safety_warning_and_prints_one_summary(
+        tmp_path: Path, hook_clone: tuple[Path, dict[str, str]]):
+    clone, env = hook_clone
+    # 30 files: pre-commit would split them over the CPUs without require_serial
+    work = _motor_repository(tmp_path, env, copies=30)
+    result = _run([PRE_COMMIT, "try-repo", str(clone), "sheetlint", "--all-files"], work, env)
+    output = result.stdout + result.stderr
+    assert result.returncode == 0, output  # package.json and the workflow are skipped
+    assert "Passed" in output
+    assert "overspeed-emf" in output and "safety: read the cautions" in output
+    assert output.count("Checked ") == 1, output
+    assert "Checked 33 files, 31 records" in output
+    assert "2 files skipped" in output
+
+
+def test_try_repo_fails_on_a_safety_warning_raised_by_the_settings(
+        tmp_path: Path, hook_clone: tuple[Path, dict[str, str]]):
+    clone, env = hook_clone
+    work = _motor_repository(tmp_path, env, copies=1)
+    (work / "sheetlint.toml").write_text('[severity]\noverspeed-emf = "error"\n',
+                                         encoding="utf-8")
+    result = _run([PRE_COMMIT, "try-repo", str(clone), "sheetlint", "--all-files"], work, env)
+    output = result.stdout + result.stderr
+    assert result.returncode != 0, output
+    assert "Failed" in output and "error    overspeed-emf" in output
+
+
+def test_try_repo_repository_hook_checks_everything_once(
+        tmp_path: Path, hook_clone: tuple[Path, dict[str, str]]):
+    clone, env = hook_clone
+    work = _motor_repository(tmp_path, env, copies=3)
+    result = _run([PRE_COMMIT, "try-repo", str(clone), "sheetlint-repository", "--all-files"],
+                  work, env)
+    output = result.stdout + result.stderr
+    assert result.returncode == 0, output
+    assert output.count("Checked ") == 1 and "4 records" in output
+
+
+def test_the_readme_local_snippet_works_as_written(tmp_path: Path):
+    # the README's `repo: local` configuration, copied verbatim (sheetlint is on PATH)
+    readme = (ROOT / "README.md").read_text(encoding="utf-8")
+    blocks = re.findall(r"```yaml\n(.*?)```", readme, re.S)
+    snippet = next(b for b in blocks if "repo: local" in b)
+    env = _env(tmp_path)
+    work = _motor_repository(tmp_path, env, copies=2)
+    (work / ".pre-commit-config.yaml").write_text(snippet, encoding="utf-8")
+    _run([GIT, "add", "."], work, env)
+    result = _run([PRE_COMMIT, "run", "--all-files"], work, env)
+    output = result.stdout + result.stderr
+    assert result.returncode == 0, output
+    assert "overspeed-emf" in output and output.count("Checked ") == 1

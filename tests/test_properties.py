@@ -1,9 +1,11 @@
-"""Properties over generated consistent machines (hypothesis).
+"""Properties over generated consistent machines (hypothesis): regression guards.
 
 The generator (sheetlint.synth) builds each record from one dq model with MTPA and losses and
 rounds it to catalogue precision; the engine must find nothing wrong with it, must name a field
 scaled beyond tolerance, must not care about field order or equivalent unit spellings, and
-derive-then-check must change nothing.
+derive-then-check must change nothing. The generator shares the engine's model, so these are
+regression guards, not checks against an outside source: the independent yardstick is
+tools/realistic_catalogue.py with bench/bench_judgement.py and tests/test_realistic_catalogue.py.
 """
 
 from __future__ import annotations
@@ -36,12 +38,30 @@ SETTINGS = settings(max_examples=300, deadline=None,
                     suppress_health_check=[HealthCheck.too_slow])
 
 
+def _back_emf_reaches_dc_link(data: dict) -> bool:
+    """Worked out here, not by the engine: the peak line back-EMF √2·Ke·n at the highest speed
+    the sheet names, with Ke as printed (20 °C: the coldest the sheet admits), reaches the
+    no-load DC link √2·U_mains of a diode front end (to within Ke's last printed digit). A
+    generated machine may sit at that edge; the overspeed warning is then right."""
+    ke = data["emf"]["constant"]["value"]  # V/krpm, line rms, 20 °C
+    top = max(float(data[s]["speed"].split()[0]) if s == "rated" else
+              float(data["limits"]["max_speed"].split()[0])
+              for s in ("rated", "limits") if s in data and
+              (s == "rated" or "max_speed" in data[s]))
+    mains = float(data["supply"]["mains_voltage"].split()[0])
+    # Ke printed with three or four digits: its last digit is at most 0.5 % of it
+    return ke * 1.005 * top / 1000 >= mains
+
+
 @SETTINGS
 @given(machines, digits)
 def test_consistent_machine_has_no_error_or_warning(spec, n_digits):
-    result = run(record(spec, "GEN", digits=n_digits))
+    data = record(spec, "GEN", digits=n_digits)
+    result = run(data)
     assert result.error is None
-    assert serious(result) == [], [(f.rule, f.message) for f in serious(result)]
+    loud = [f for f in serious(result)
+            if not (f.rule == "overspeed-emf" and _back_emf_reaches_dc_link(data))]
+    assert loud == [], [(f.rule, f.message) for f in loud]
 
 
 SCALED = [("rated", "torque", "rated.torque"), ("rated", "current", "rated.current"),
@@ -98,4 +118,8 @@ def test_derive_then_check_changes_no_finding(tmp_path_factory, spec):
     completed = json.loads(text)
     assert "torque" in completed["rated"]
     after = run(completed)
-    assert serious(after) == serious(before) == []
+
+    def loud(result):
+        return [(f.rule, f.severity, f.fields) for f in serious(result)
+                if not (f.rule == "overspeed-emf" and _back_emf_reaches_dc_link(data))]
+    assert loud(after) == loud(before) == []

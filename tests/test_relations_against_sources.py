@@ -78,25 +78,27 @@ def test_no_pole_count_stated_and_no_integral_one_fits_frequency_and_speed_is_an
 
 
 def test_kt_without_magnet_temperature_says_which_reading_of_ke_it_fits():
-    # Kt = √3·Ke from the power balance T·ω = √3·E·I (REFERENCES §4 [D]; Krishnan, Permanent
-    # Magnet Synchronous and Brushless DC Motor Drives, CRC 2010 [M: chapter]). Ke
-    # 100 V/krpm at 20 °C gives Kt 1.654 N·m/A at 20 °C; NdFeB at 120 °C (α −0.11 %/K,
-    # REFERENCES §6) 1.472 N·m/A. A Kt with no stated temperature gets an info naming the fit.
+    # Kt = √3·Ke from the power balance T·ω = √3·E·I (Krishnan, Permanent Magnet Synchronous
+    # and Brushless DC Motor Drives, CRC 2010; from memory: chapter). Ke 100 V/krpm at 20 °C
+    # gives Kt 1.654 N·m/A at 20 °C; NdFeB at 120 °C (α −0.11 %/K referred to 20 °C, magnet
+    # makers' notes as quoted) 1.472 N·m/A. A Kt with no stated temperature gets an info naming
+    # the reading that fits.
     base = {"id": "K", "machine": {"topology": "spm"},
             "rated": {"magnet_temperature": "120 °C"},
             "emf": {"constant": "100.0 V/krpm", "magnet_temperature": "20 °C"}}
-    for kt, reading in (("1.654 N*m/A", "at the Ke temperature (20 °C)"),
-                        ("1.472 N*m/A", "at the rated magnet temperature (120 °C)")):
+    for kt, reading in (("1.654 N*m/A", "the 20 °C constant"),
+                        ("1.472 N*m/A", "the constant at about 120 °C")):
         result = run(dict(base, torque_constant=kt))
         assert not [f for f in serious(result) if f.rule == "emf-constant"]
         infos = [f for f in result.findings if f.rule == "emf-constant" and
-                 "does not state the magnet temperature of Kt" in f.message]
+                 "does not state Kt's magnet temperature" in f.message]
         assert len(infos) == 1 and infos[0].message.endswith(reading)
-    # a Kt that fits neither reading (Ke per phase: √3 off) fails the relation; no "fits
-    # best" info beside that failure
+    # a Kt that fits no reading (Ke per phase: √3 off) fails the relation and is named; no
+    # "reads as" info beside that failure
     result = run(dict(base, torque_constant="2.865 N*m/A"))
-    assert [f for f in serious(result) if f.rule == "emf-constant"]
-    assert not [f for f in result.findings if "fits best" in f.message]
+    failing = [f for f in serious(result) if f.rule == "emf-constant"]
+    assert failing and "√3" in (failing[0].cause or "")
+    assert not [f for f in result.findings if "reads as" in f.message]
 
 
 def test_electrical_power_allows_the_iec_60034_1_tolerance_on_efficiency_and_power_factor():

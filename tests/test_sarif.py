@@ -34,7 +34,7 @@ def validator() -> jsonschema.Draft4Validator:
 
 
 def _sarif(capsys: pytest.CaptureFixture[str], *paths: str) -> tuple[int, dict[str, Any]]:
-    status = main(["check", "--no-config", "--format", "sarif", *paths])
+    status = main(["check", "--no-settings", "--format", "sarif", *paths])
     return status, json.loads(capsys.readouterr().out)
 
 
@@ -98,7 +98,7 @@ def test_levels_map_info_to_note_and_unreadable_to_error(
     assert uris == ["missing-folder", "motors/broken.yaml", "motors/two.json"]
     assert all(r["level"] == "error" for r in unreadable)
     # the JSON report says which findings are info; SARIF must call exactly those "note"
-    main(["check", "--no-config", "--format", "json", *batch])
+    main(["check", "--no-settings", "--format", "json", *batch])
     data = json.loads(capsys.readouterr().out)
     infos = sum(1 for f in data["files"] for r in f["records"] for x in r["findings"]
                 if x["severity"] == "info")
@@ -116,7 +116,7 @@ def test_driver_rules_describe_every_registered_rule_with_its_docstring(
         assert d["fullDescription"]["text"]
         first_doc_line = inspect.cleandoc(type(relation).__doc__ or "").splitlines()[0]
         assert first_doc_line in d["help"]["text"]
-        assert d["properties"]["status"] in ("stable", "preview")
+        assert d["properties"]["status"] in ("established", "trial")
 
 
 def test_pdf_findings_name_page_and_cell(tmp_path: Path, monkeypatch: pytest.MonkeyPatch,
@@ -156,7 +156,7 @@ def test_sarif_to_file_with_output_option(tmp_path: Path, monkeypatch: pytest.Mo
                                           capsys: pytest.CaptureFixture[str]):
     monkeypatch.chdir(tmp_path)
     (tmp_path / "planted.yaml").write_text(PLANTED, encoding="utf-8")
-    status = main(["check", "--no-config", "--format", "sarif", "planted.yaml",
+    status = main(["check", "--no-settings", "--format", "sarif", "planted.yaml",
                    "-o", "out.sarif"])
     assert status == 1
     assert capsys.readouterr().out == ""

@@ -61,11 +61,23 @@ def test_megawatt_and_milliwatt_are_not_confused():
     assert read_value("1 mW", None, "power", True).value == 1e-3
 
 
-def test_declared_ratings_count_trailing_zeros_characteristics_may_not():
-    # DESIGN.md "Tolerance and severity": 1500 rpm declared is ±0.5; 1420 N·m may be ±5
-    assert written_uncertainty("1500", 1500.0, declared=True) == pytest.approx(0.5 / 1500)
-    assert written_uncertainty("1420", 1420.0, declared=False) == pytest.approx(5 / 1420)
-    assert written_uncertainty("1420.0", 1420.0, declared=False) == pytest.approx(0.05 / 1420)
+@pytest.mark.parametrize("text,half", [
+    # DESIGN.md "Judgement" 1, its own examples: an integer keeps at least three significant
+    # digits (100 N·m ± 0.5, 1420 N·m ± 5, 20 A ± 0.05); a decimal point counts every digit
+    # (1.5 kW ± 0.05)
+    ("100", 0.5), ("1420", 5.0), ("20", 0.05), ("1.5", 0.05), ("1420.0", 0.05),
+    # the same rule for a rating: 1500 rpm ± 5, 4 kW ± 0.005 (never ±12.5 %)
+    ("1500", 5.0), ("4", 0.005), ("15000", 50.0), ("12345", 0.5),
+])
+def test_written_precision_follows_the_design_rule(text, half):
+    value = float(text)
+    assert written_uncertainty(text, value) * value == pytest.approx(half)
+
+
+def test_a_round_number_never_buys_tens_of_percent():
+    # issue 15: 100 N·m was read as ±50 %, 20 A as ±25 %, 4 kW as ±12.5 %
+    for text in ("100", "20", "4", "1000", "50000"):
+        assert written_uncertainty(text, float(text)) <= 0.005
 
 
 @pytest.mark.parametrize("text", ["nan kW", "inf kW", "1e999 kW", "fifteen kW", ""])

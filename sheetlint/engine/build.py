@@ -54,6 +54,19 @@ def thermal_class_number(value: Any) -> int | str | None:
     return int(number) if number.is_integer() else str(value)
 
 
+def supply_kind(supply: Measured | None) -> str | None:
+    """``dc`` or ``ac`` as a supply voltage's unit marks it (``560 V DC``, ``400 Vac``);
+    None when the unit does not say."""
+    if supply is None:
+        return None
+    unit = supply.reading.unit.replace(" ", "").replace("*", "").replace(".", "").lower()
+    if unit.endswith("dc"):
+        return "dc"
+    if unit.endswith(("ac", "rms")):
+        return "ac"
+    return None
+
+
 @cache
 def _given_plan(path: str) -> tuple[dict[str, float] | None, str | None, Mapping[str, float]]:
     """(factor per stated basis, default basis, sensitivity) of a field path, worked out once;
@@ -94,6 +107,9 @@ _MACHINE_FIELDS = tuple((name, f"machine.{name}")
                                      "stack_length"))
 _LIMIT_FIELDS = tuple((name, f"limits.{name}")
                       for name in ("max_speed", "peak_torque", "peak_current"))
+_DYNAMICS_FIELDS = tuple((name, f"dynamics.{name}")
+                         for name in ("electrical_time_constant", "mechanical_time_constant",
+                                      "motor_constant", "thermal_time_constant"))
 _COUNT_FIELDS = tuple((name, f"machine.{name}") for name in ("poles", "pole_pairs", "phases"))
 _MAGNET_NAMES = {"ndfeb": "NdFeB", "smco": "SmCo", "ferrite": "ferrite"}
 
@@ -106,7 +122,7 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
     odd_qualifiers: list[tuple[str, Measured]] = []
 
     def put(path: str, m: Measured | None, temperature: float | None = None) -> None:
-        if m is not None:
+        if m is not None and not m.derived:  # a value `derive` wrote is worked out again
             values[path] = _known(path, m, temperature)
             if m.unknown_qualifiers:
                 odd_qualifiers.append((path, m))
@@ -162,6 +178,22 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
     limits_fields = vars(fields_of["limits"])
     for name, path in _LIMIT_FIELDS:
         put(path, limits_fields[name])
+    no_load = limits_fields["no_load_speed"]
+    if no_load is not None:
+        put("limits.no_load_speed", no_load)
+        if "supply" in no_load.extras:
+            put("limits.no_load_speed.supply", no_load.extras["supply"])
+    demagnetisation = limits_fields["demagnetisation_current"]
+    if demagnetisation is not None:
+        put("limits.demagnetisation_current", demagnetisation,
+            demagnetisation.magnet_temperature)
+    dynamics_fields = vars(fields_of["dynamics"])
+    servo_sheet = False
+    for name, path in _DYNAMICS_FIELDS:
+        m = dynamics_fields[name]
+        if m is not None:
+            put(path, m)
+            servo_sheet = True
     supply_fields = vars(fields_of["supply"])
     put("supply.mains_voltage", supply_fields["mains_voltage"])
     put("supply.dc_link_voltage", supply_fields["dc_link_voltage"])
@@ -190,11 +222,51 @@ def build_sheet(record: MachineRecord, settings: Settings | None = None,
         if peak_torque is not None else None,
         "limits.peak_current.duration": peak_current.duration
         if peak_current is not None else None,
-        "suppress": [(s.rule, s.reason, s.field) for s in fields_of["suppress"]],
+        "accepted": [(a.rule, a.reason, tuple(a.fields)) for a in fields_of["accepted"]],
+        "dynamics.stated": servo_sheet,
+        "limits.no_load_speed.supply_kind": supply_kind(no_load.extras.get("supply"))
+        if no_load is not None else None,
     }
     sheet = Sheet(record.id, values, attributes, settings, locate)
     notes.extend(_unknown_field_notes(record, fields_of, sheet, odd_qualifiers))
     return sheet, notes
+
+
+#: quantities of the trade that are not (yet) fields of the schema: never a misspelling of a
+#: field they merely resemble (DESIGN.md, Data contract)
+TRADE_QUANTITIES = frozenset({
+    "motor_constant", "kv", "velocity_constant", "speed_constant", "acceleration",
+    "cogging_torque", "voltage_constant", "back_emf_constant", "torque_ripple",
+    "thermal_resistance", "thermal_time_constant", "electrical_time_constant",
+    "mechanical_time_constant", "winding_resistance", "winding_inductance", "stall_torque",
+    "stall_current", "continuous_torque", "continuous_current", "no_load_speed",
+    "no_load_current", "friction_torque", "damping", "brake", "encoder", "resolver",
+    "protection", "ip_code", "weight", "frame", "shaft", "bearing", "noise", "vibration",
+})
+
+
+def _edit_distance(a: str, b: str) -> int:
+    """Levenshtein distance of two short names."""
+    previous = list(range(len(b) + 1))
+    for i, ca in enumerate(a, 1):
+        current = [i]
+        for j, cb in enumerate(b, 1):
+            current.append(min(previous[j] + 1, current[j - 1] + 1,
+                               previous[j - 1] + (ca != cb)))
+        previous = current
+    return previous[-1]
+
+
+def _misspelt(name: str, known: list[str]) -> list[str]:
+    """The known field ``name`` probably misspells: close in spelling (a typo is one or two
+    letters, a fifth of a long name at most), and not a trade quantity of its own."""
+    leaf = name.rsplit(".", 1)[-1].lower()
+    if leaf in TRADE_QUANTITIES or len(name) > 200:
+        return []
+    for candidate in difflib.get_close_matches(name, known, n=3, cutoff=0.8):
+        if _edit_distance(name, candidate) <= max(1, min(2, len(candidate) // 5)):
+            return [candidate]
+    return []
 
 
 @cache
@@ -217,9 +289,9 @@ def _unknown_field_notes(record: MachineRecord, fields_of: dict[str, Any], sheet
         for name in extra:
             path = f"{prefix}.{name}" if prefix else name
             if "." in name and not prefix:
-                close = difflib.get_close_matches(name, list(FIELDS), n=1, cutoff=0.8)
+                close = _misspelt(name, list(FIELDS))
             else:
-                close = difflib.get_close_matches(name, known, n=1, cutoff=0.8)
+                close = _misspelt(name, known)
             if close:
                 meant = f"{prefix}.{close[0]}" if prefix else close[0]
                 out.append(sheet.finding(rule, "warning",

@@ -1,11 +1,16 @@
-"""Cause diagnosis: which usual slip on which given field reconciles the failing relations.
+"""Slip readings: the usual ways a datasheet value is wrong, each as a factor on one field.
 
-For every monomial relation the engine knows the log residual r and how it depends on each given
-field (``Evaluation.coefficients``). If the sheet's value of field g is the true value times k,
-every residual involving g moves by c_g·ln k. A slip (g, k) *reconciles* when every failing
-relation that involves g passes after the correction and no passing one starts to fail. Slips
-with the same factor on the same field are named together as one cause (×√3: per phase rather
-than line-to-line, or star/delta).
+A *reading* says what a field's value probably is instead of what the sheet says it is: Ke per
+phase where the sheet says (or the default reads) line-to-line, a power in hp labelled kW, a
+pole count two off. It is a factor on the sheet's value (sheet value = true value × factor) and
+a sentence, worded the same way in every finding it explains.
+
+Readings are offered only where they agree with what the sheet states (DESIGN.md, Relations):
+a basis reading starts from the basis the sheet states (or the default one), a unit reading from
+the unit the sheet writes — never "kW labelled hp" for a value written in kW.
+
+Which reading explains a record is decided in :mod:`sheetlint.engine.diagnosis` by re-checking
+the record with the reading applied.
 """
 
 from __future__ import annotations
@@ -13,176 +18,262 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from sheetlint.engine.core import Sheet
-from sheetlint.engine.monomial import Evaluation
-from sheetlint.fields import spec_for
+from sheetlint.engine.core import Known, Sheet
+from sheetlint.fields import BASES, spec_for
 
 SQRT2 = math.sqrt(2.0)
 SQRT3 = math.sqrt(3.0)
-HP_W = 745.69987158227022
+HP_W = 745.69987158227022  # W per hp (550 ft·lbf/s), NIST SP 811 (2008), App. B
+
+#: value in a basis × factor = value in the engine's canonical basis (DESIGN.md, Bases)
+BASIS_FACTOR: dict[str, dict[str, float]] = {
+    "voltage": {"line_rms": 1.0, "line_peak": 1 / SQRT2, "phase_rms": SQRT3,
+                "phase_peak": SQRT3 / SQRT2},
+    "emf_constant": {"line_rms": 1.0, "line_peak": 1 / SQRT2, "phase_rms": SQRT3,
+                     "phase_peak": SQRT3 / SQRT2},
+    "current": {"rms": 1.0, "peak": 1 / SQRT2},
+    "torque_constant": {"rms": 1.0, "peak": SQRT2},
+    "resistance": {"phase": 1.0, "line": 0.5, "delta_branch": 1 / 3},
+    "inductance": {"phase": 1.0, "line": 0.5},
+}
+
+#: how each basis is said in a cause
+BASIS_WORDS: dict[str, dict[str, str]] = {
+    "voltage": {"line_rms": "line-to-line rms", "line_peak": "line-to-line peak",
+                "phase_rms": "per phase (rms)", "phase_peak": "phase peak"},
+    "emf_constant": {"line_rms": "line-to-line rms", "line_peak": "line-to-line peak",
+                     "phase_rms": "per phase (rms)", "phase_peak": "phase peak"},
+    "current": {"rms": "rms", "peak": "peak"},
+    "torque_constant": {"rms": "per rms ampere", "peak": "per peak ampere"},
+    "resistance": {"phase": "per phase", "line": "line-to-line (terminal to terminal)",
+                   "delta_branch": "per delta branch"},
+    "inductance": {"phase": "per phase", "line": "line-to-line (terminal to terminal)"},
+}
+
+#: factors a reading may carry, and how they are written (the same symbol in every finding)
+_SYMBOLS: tuple[tuple[float, str], ...] = (
+    (SQRT2, "√2"), (SQRT3, "√3"), (math.sqrt(1.5), "√(3/2)"), (SQRT2 * SQRT3, "√6"),
+    (2.0, "2"), (3.0, "3"), (1.5, "3/2"), (1000.0, "1000"), (60.0, "60"),
+    (2 * math.pi, "2π"), (60 / (2 * math.pi), "60/2π"), (1.2, "1.2, 50/60 Hz"),
+    (1000 / HP_W, "1.341, hp/kW"), (2 / SQRT3, "2/√3"), (SQRT3 / 2, "√3/2"),
+    (2 * SQRT2 / SQRT3, "2·√(2/3)"), (1.5 * SQRT2, "3/√2"), (2 / 3 * SQRT2, "2√2/3"),
+    (SQRT2 / 3, "√2/3"), (SQRT3 / SQRT2 / 2, "√6/4"),
+)
+
+
+def symbol(factor: float) -> str:
+    """"×√3", "÷1000", ... for a factor (sheet = true × factor); a decimal when unnamed."""
+    for value, name in _SYMBOLS:
+        if abs(factor / value - 1) < 1e-6:
+            return f"×{name}"
+        if abs(factor * value - 1) < 1e-6:
+            return f"÷{name}"
+    return f"×{factor:.4g}"
 
 
 @dataclass(frozen=True, slots=True)
 class Slip:
-    factor: float  # sheet value = true value × factor
-    symbol: str
-    reading: str  # what the sheet's value probably is
-    kinds: frozenset[str]
-    basis: bool = False  # a basis reading (the sheet may simply not state it)
+    """A slip on one field: the sheet's value is the true value × ``factor``."""
 
-
-def _kinds(*names: str) -> frozenset[str]:
-    return frozenset(names)
-
-
-_ELECTRIC = _kinds("voltage", "emf_constant")
-_BOTH = ("power", "torque", "speed", "frequency", "voltage", "current", "resistance",
-         "inductance", "emf_constant", "torque_constant", "flux_linkage", "mass", "inertia")
-
-SLIPS: tuple[Slip, ...] = (
-    Slip(1 / SQRT3, "÷√3", "per phase rather than line-to-line (or star/delta)", _ELECTRIC, True),
-    Slip(SQRT3, "×√3", "line-to-line where per phase was meant (or star/delta)", _ELECTRIC, True),
-    Slip(SQRT3, "×√3", "a delta-winding value where the line value was meant (star/delta)",
-         _kinds("current"), True),
-    Slip(1 / SQRT3, "÷√3", "a delta branch current rather than the line current (star/delta)",
-         _kinds("current"), True),
-    Slip(SQRT3, "×√3", "based on line-to-line rather than phase EMF (or star/delta)",
-         _kinds("torque_constant"), True),
-    Slip(1 / SQRT3, "÷√3", "based on phase rather than line-to-line EMF (or star/delta)",
-         _kinds("torque_constant"), True),
-    Slip(SQRT2, "×√2", "peak rather than rms",
-         _kinds("voltage", "emf_constant", "current"), True),
-    Slip(1 / SQRT2, "÷√2", "rms where peak was meant",
-         _kinds("voltage", "emf_constant", "current", "flux_linkage"), True),
-    Slip(1 / SQRT2, "÷√2", "per peak ampere rather than per rms ampere",
-         _kinds("torque_constant"), True),
-    Slip(SQRT2, "×√2", "per rms ampere where per peak ampere was meant",
-         _kinds("torque_constant"), True),
-    Slip(SQRT2 * SQRT3, "×√6", "line-to-line rms where phase peak was meant", _ELECTRIC, True),
-    Slip(1 / (SQRT2 * SQRT3), "÷√6", "phase peak rather than line-to-line rms", _ELECTRIC, True),
-    Slip(2.0, "×2", "line-to-line (terminal-to-terminal) rather than per phase",
-         _kinds("resistance", "inductance"), True),
-    Slip(0.5, "÷2", "per phase where the line-to-line value was meant",
-         _kinds("resistance", "inductance"), True),
-    Slip(3.0, "×3", "a delta branch value rather than the star-equivalent phase value",
-         _kinds("resistance", "inductance"), True),
-    Slip(2.0, "×2", "a pole count where pole pairs were meant", _kinds("count")),
-    Slip(0.5, "÷2", "pole pairs where a pole count was meant", _kinds("count")),
-    Slip(1.5, "×3/2", "scaled by 3/2 (amplitude- vs power-invariant dq, or a 3/2 in the torque "
-         "equation)", _kinds("torque_constant", "flux_linkage", "torque")),
-    Slip(2 / 3, "÷3/2", "missing a factor 3/2 (amplitude- vs power-invariant dq)",
-         _kinds("torque_constant", "flux_linkage", "torque")),
-    Slip(1000.0, "×1000", "in a unit 1000 times smaller than labelled (prefix slip)",
-         frozenset(_BOTH)),
-    Slip(1e-3, "÷1000", "in a unit 1000 times larger than labelled (prefix slip)",
-         frozenset(_BOTH)),
-    Slip(60 / (2 * math.pi), "×60/2π", "in rpm where rad/s was meant",
-         _kinds("speed", "emf_constant")),
-    Slip(2 * math.pi / 60, "×2π/60", "in rad/s where rpm was meant",
-         _kinds("speed", "emf_constant")),
-    Slip(60.0, "×60", "per minute where per second was meant (Hz vs rpm)",
-         _kinds("speed", "frequency")),
-    Slip(1 / 60.0, "÷60", "per second where per minute was meant (Hz vs rpm)",
-         _kinds("speed", "frequency")),
-    Slip(2 * math.pi, "×2π", "in rad/s where Hz was meant", _kinds("frequency", "speed")),
-    Slip(1 / (2 * math.pi), "÷2π", "in Hz where rad/s was meant",
-         _kinds("frequency", "speed", "emf_constant")),
-    Slip(1000 / HP_W, "×1.341", "a power in hp labelled kW", _kinds("power")),
-    Slip(HP_W / 1000, "×0.7457", "a power in kW labelled hp", _kinds("power")),
-    Slip(1.2, "×1.2", "a 60 Hz value next to 50 Hz data",
-         _kinds("frequency", "speed", "power", "voltage")),
-    Slip(1 / 1.2, "÷1.2", "a 50 Hz value next to 60 Hz data",
-         _kinds("frequency", "speed", "power", "voltage")),
-)
-
-
-def _pole_pair_slips(sheet: Sheet) -> tuple[Slip, ...]:
-    pairs = sheet.get("machine.pole_pairs")
-    if pairs is None or pairs.value < 2:
-        return ()
-    p = pairs.value
-    return (
-        Slip(p, f"×p={p:g}", "an electrical speed or angle where the mechanical one was meant",
-             _kinds("speed", "emf_constant")),
-        Slip(1 / p, f"÷p={p:g}", "a mechanical speed where the electrical one was meant",
-             _kinds("speed", "emf_constant", "frequency")),
-    )
-
-
-@dataclass(slots=True)
-class Cause:
     field: str
-    slip: Slip
-    fixed: list[Evaluation]
-    readings: list[str]
+    factor: float
+    text: str  # what the value probably is: "per phase (rms), not line-to-line rms"
+    basis: bool = False  # a basis reading: the sheet may simply not have stated the basis
+    rank: int = 0  # lower is the more usual slip, preferred between equal explanations
+    phrase: str = ""  # the whole cause after the field name, when "agrees if ..." does not fit
 
-    def text(self) -> str:
-        readings = "; or ".join(self.readings)
-        return f"agrees if {self.field} is {readings} ({self.slip.symbol})"
+    @property
+    def symbol(self) -> str:
+        return symbol(self.factor)
+
+    def cause(self) -> str:
+        """The cause sentence: field to correct, the reading that fits, the factor."""
+        if self.phrase:
+            return f"{self.field}: {self.phrase}"
+        return f"{self.field}: agrees if {self.text} ({self.symbol})"
+
+    def corrected(self, value: float) -> float:
+        return value / self.factor
 
 
-def diagnose(sheet: Sheet, evaluations: list[Evaluation]) -> dict[int, list[Cause]]:
-    """For each failing evaluation (by index), the causes that reconcile it (best first)."""
-    failing = [e for e in evaluations if abs(e.residual) > e.tolerance]
-    if not failing:
-        return {}
-    candidates: set[str] = set()
-    for e in failing:
-        if e.coefficients:
-            candidates.update(g for g, c in e.coefficients.items() if abs(c) > 1e-9)
-    slips = SLIPS + _pole_pair_slips(sheet)
-    found: list[Cause] = []
-    for g in sorted(candidates):
-        known = sheet.get(g)
-        spec = spec_for(g)
-        if known is None or spec is None or not known.is_given:
+# --- readings per kind of field ------------------------------------------------------------
+#: bases no sheet uses for that kind: a rated voltage is never printed as a phase peak (a
+#: reading that would fit by coincidence more often than by slip)
+_UNUSUAL_BASES = frozenset({("voltage", "phase_peak")})
+
+
+def _basis_readings(path: str, kind: str, known: Known) -> list[Slip]:
+    factors = BASIS_FACTOR.get(kind)
+    if factors is None:
+        return []
+    words = BASIS_WORDS[kind]
+    stated = known.basis or BASES[kind][0]
+    said = "as stated" if known.basis_stated else "as read by default"
+    out = []
+    for alternative, alt_factor in factors.items():
+        if alternative == stated or (kind, alternative) in _UNUSUAL_BASES:
             continue
-        by_factor: dict[float, Cause] = {}
-        for slip in slips:
-            if spec.kind not in slip.kinds:
-                continue
-            if g == "machine.pole_pairs" or (spec.kind == "count" and g != "machine.poles"):
-                continue
-            fixed = _reconciles(g, slip.factor, evaluations)
-            if not fixed:
-                continue
-            key = round(slip.factor, 9)
-            cause = by_factor.get(key)
-            if cause is None:
-                by_factor[key] = Cause(g, slip, fixed, [slip.reading])
-            elif slip.reading not in cause.readings:
-                cause.readings.append(slip.reading)
-        found.extend(by_factor.values())
-    out: dict[int, list[Cause]] = {}
-    for i, e in enumerate(evaluations):
-        if abs(e.residual) <= e.tolerance:
-            continue
-        causes = [c for c in found if any(f is e for f in c.fixed)]
-        causes.sort(key=lambda c: -len(c.fixed))
-        if causes:
-            best = len(causes[0].fixed)
-            out[i] = [c for c in causes if len(c.fixed) == best]
+        factor = factors[stated] / alt_factor
+        out.append(Slip(path, factor, f"the value is {words[alternative]}, not "
+                           f"{words[stated]} {said}", basis=True, rank=1))
     return out
 
 
-def _reconciles(field: str, factor: float, evaluations: list[Evaluation]) -> list[Evaluation]:
-    """Failing evaluations fixed by dividing ``field`` by ``factor``; [] if any involved fails.
+#: unit prefixes a prefix slip moves between (×1000 steps)
+_PREFIX_STEPS = ("n", "µ", "m", "", "k", "M", "G")
+#: units whose prefix slips are usual on datasheets (W/kW, µH/mH, mΩ/Ω, ms/s, mN·m/N·m)
+_PREFIX_KINDS = {"power": "W", "inductance": "H", "resistance": "Ω", "time": "s",
+                 "torque": "N·m", "current": "A", "voltage": "V"}
 
-    A failing relation counts as fixed only when the slip explains most of it: the corrected
-    residual is under a third of the residual it had. Otherwise a wide tolerance would let any
-    factor near the deviation pass for a cause.
-    """
-    shift = math.log(factor)
-    fixed: list[Evaluation] = []
-    for e in evaluations:
-        c = (e.coefficients or {}).get(field, 0.0)
-        if abs(c) < 1e-9:
+
+def _split_prefix(unit: str, base: str) -> tuple[str, str] | None:
+    text = unit.strip().replace("u", "µ", 1) if unit.strip().startswith("u") else unit.strip()
+    text = text.replace("ohm", "Ω").replace("Ohm", "Ω").replace("*", "·").replace("Nm", "N·m")
+    if not text.endswith(base):
+        return None
+    prefix = text[: -len(base)]
+    return (prefix, base) if prefix in _PREFIX_STEPS else None
+
+
+def _prefix_readings(path: str, kind: str, known: Known) -> list[Slip]:
+    base = _PREFIX_KINDS.get(kind)
+    written = known._written
+    unit = getattr(written, "unit", None)
+    if base is None or not unit:
+        return []
+    split = _split_prefix(unit, base)
+    if split is None:
+        return []
+    prefix, base = split
+    step = _PREFIX_STEPS.index(prefix)
+    out = []
+    if step > 0:  # the number was in a unit 1000 times smaller: the sheet reads 1000× high
+        smaller = _PREFIX_STEPS[step - 1] + base
+        out.append(Slip(path, 1000.0, f"the value is in {smaller}, labelled {prefix}{base}",
+                           rank=2))
+    if step + 1 < len(_PREFIX_STEPS):
+        larger = _PREFIX_STEPS[step + 1] + base
+        out.append(Slip(path, 1e-3, f"the value is in {larger}, labelled {prefix}{base}",
+                           rank=2))
+    return out
+
+
+def _power_unit_readings(path: str, known: Known) -> list[Slip]:
+    unit = (getattr(known._written, "unit", "") or "").strip()
+    if unit in ("kW", "kw", "KW"):
+        return [Slip(path, 1000 / HP_W, "the value is in hp, labelled kW", rank=1)]
+    if unit in ("hp", "HP"):
+        return [Slip(path, HP_W / 1000, "the value is in kW, labelled hp", rank=1)]
+    return []
+
+
+def _frequency_readings(path: str) -> list[Slip]:
+    return [Slip(path, 1.2, "the value is a 60 Hz rating next to 50 Hz data", rank=3),
+            Slip(path, 1 / 1.2, "the value is a 50 Hz rating next to 60 Hz data", rank=3)]
+
+
+_RPM_SPELLINGS = frozenset({"rpm", "r/min", "min-1", "1/min", "/min", "u/min", "rev/min",
+                            "min^-1"})
+
+
+def _speed_unit_readings(path: str, known: Known) -> list[Slip]:
+    unit = (getattr(known._written, "unit", "") or "").strip().lower()
+    if unit in _RPM_SPELLINGS:
+        return [Slip(path, 2 * math.pi / 60, f"the value is in rad/s, labelled {unit}", rank=4)]
+    if unit in ("rad/s", "rad/sec"):
+        return [Slip(path, 60 / (2 * math.pi), f"the value is in rpm, labelled {unit}", rank=4)]
+    return []
+
+
+def _pole_readings(sheet: Sheet, path: str, known: Known) -> list[Slip]:
+    poles = known.value
+    out = []
+    for other in (poles - 2, poles + 2):
+        if other >= 2:
+            out.append(Slip(path, poles / other, f"the machine has {other:g} poles", rank=1,
+                            phrase=f"agrees with {other:g} poles, not {poles:g}"))
+    out.append(Slip(path, 2.0, "the value is the pole-pair count, not the pole count",
+                       rank=2))
+    out.append(Slip(path, 0.5, "the value is the pole count doubled", rank=3))
+    return out
+
+
+def _swapped_digit_readings(path: str, known: Known) -> list[Slip]:
+    text = getattr(known._written, "text", None)
+    if not text:
+        return []
+    out = []
+    seen = set()
+    for i in range(len(text) - 1):
+        a, b = text[i], text[i + 1]
+        if not (a.isdigit() and b.isdigit()) or a == b:
             continue
-        corrected = abs(e.residual - c * shift)
-        if corrected > e.tolerance:
-            return []
-        if abs(e.residual) > e.tolerance:
-            if corrected > abs(e.residual) / 3:
-                return []
-            fixed.append(e)
-    return fixed
+        swapped = text[:i] + b + a + text[i + 2:]
+        try:
+            ratio = float(text) / float(swapped)
+        except (ValueError, ZeroDivisionError):
+            continue
+        if ratio > 0 and swapped not in seen:
+            seen.add(swapped)
+            out.append(Slip(path, ratio, f"two digits are swapped: {swapped}, not {text}",
+                               rank=2))
+    return out
+
+
+def readings(sheet: Sheet, path: str) -> list[Slip]:
+    """Every usual slip reading of a given field that agrees with what the sheet states."""
+    known = sheet.get(path)
+    spec = spec_for(path)
+    if known is None or spec is None or not known.is_given or not known.value > 0:
+        return []
+    kind = spec.kind
+    out = _basis_readings(path, kind, known)
+    if kind == "power":
+        out += _power_unit_readings(path, known)
+    if path.startswith("supply."):
+        return []  # supply voltages are line-to-line by every convention
+    if kind in ("frequency", "speed") and not path.startswith("limits."):
+        out += _frequency_readings(path)
+    if kind == "speed":
+        out += _speed_unit_readings(path, known)
+        pairs = sheet.get("machine.pole_pairs") or sheet.get("machine.poles")
+        if pairs is not None and not path.startswith("limits."):
+            p = pairs.value if sheet.get("machine.pole_pairs") else pairs.value / 2
+            if p >= 2 and math.isfinite(p):
+                out.append(Slip(path, p, f"the value is an electrical speed (×p = {p:g}), "
+                                "not the mechanical one", rank=4))
+    if kind == "frequency":
+        unit = (getattr(known._written, "unit", "") or "").strip()
+        if unit.lower() == "hz":
+            out.append(Slip(path, 60.0, "the value is per minute, labelled per second (Hz)",
+                            rank=4))
+    if kind == "current":
+        out.append(Slip(path, SQRT3, "the value is √3 too large: a line current where the "
+                        "delta branch current was meant (star/delta)", basis=True, rank=2))
+        out.append(Slip(path, 1 / SQRT3, "the value is a delta branch current, not the line "
+                        "current (star/delta)", basis=True, rank=2))
+    if path == "machine.poles" and known.value < 1000:
+        out += _pole_readings(sheet, path, known)
+    if path.endswith(("efficiency", "power_factor")):
+        out += _swapped_digit_readings(path, known)
+    if kind in ("flux_linkage", "torque_constant"):
+        out.append(Slip(path, 1.5, "the value is scaled by 3/2 (power- vs "
+                           "amplitude-invariant dq)", rank=4))
+        out.append(Slip(path, 2 / 3, "the value lacks the 3/2 of the amplitude-invariant "
+                           "dq model", rank=4))
+    out += _prefix_readings(path, kind, known)
+    out += _declared_readings(path)
+    return out
+
+
+def _declared_readings(path: str) -> list[Slip]:
+    """Readings a relation declares for its own fields (``slip_readings``: field ->
+    ((factor, reading), ...)), e.g. a mechanical time constant worked out with the terminal
+    resistance as if per phase."""
+    from sheetlint.relations.registry import relations_with
+
+    out = []
+    for relation in relations_with("slip_readings"):
+        for factor, reading in relation.slip_readings.get(path, ()):  # type: ignore[attr-defined]
+            out.append(Slip(path, factor, f"it is {reading}", rank=2))
+    return out

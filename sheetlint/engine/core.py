@@ -7,13 +7,14 @@ to the given fields (so that a slip on one given field can be traced through der
 
 from __future__ import annotations
 
+import re
 from collections.abc import Callable, Iterator, Mapping
 from dataclasses import dataclass, field
 from functools import cache
 from types import MappingProxyType
 from typing import Any, ClassVar, Literal
 
-from sheetlint.fields import display
+from sheetlint.fields import display, display_quantity
 
 Severity = Literal["error", "warning", "info"]
 SEVERITY_RANK: dict[str, int] = {"info": 0, "warning": 1, "error": 2}
@@ -155,7 +156,12 @@ class Finding:
     cause: str | None = None
     source: str = ""
     location: dict[str, Any] | None = None
-    suppressed: str | None = None  # the reason, when a suppression in the record covers it
+    accepted: str | None = None  # the reason, when an acceptance in the record covers it
+    #: the numbers behind ``expected``/``actual``: field -> {"value": float, "unit": str}
+    expected_values: dict[str, dict[str, Any]] = field(default_factory=dict)
+    actual_values: dict[str, dict[str, Any]] = field(default_factory=dict)
+    #: the findings one slip also explains, listed under the finding that names it
+    consequences: list[str] = field(default_factory=list)
 
     def to_dict(self) -> dict[str, Any]:
         out: dict[str, Any] = {
@@ -169,9 +175,13 @@ class Finding:
             "cause": self.cause,
             "source": self.source,
             "location": self.location,
+            "expected_values": {k: dict(v) for k, v in self.expected_values.items()},
+            "actual_values": {k: dict(v) for k, v in self.actual_values.items()},
         }
-        if self.suppressed is not None:
-            out["suppressed"] = self.suppressed
+        if self.accepted is not None:
+            out["accepted"] = self.accepted
+        if self.consequences:
+            out["consequences"] = list(self.consequences)
         return out
 
 
@@ -182,9 +192,13 @@ _NO_OPTIONS: Mapping[str, Any] = MappingProxyType({})
 class Settings:
     """Engine settings merged from defaults, configuration files and the command line."""
 
-    select: frozenset[str] | None = None
-    ignore: frozenset[str] = frozenset()
+    only: frozenset[str] | None = None
+    skip: frozenset[str] = frozenset()
     options: dict[str, dict[str, Any]] = field(default_factory=dict)
+    #: rule -> severity that replaces the rule's own (``severity`` in the configuration)
+    severity: dict[str, str] = field(default_factory=dict)
+    #: work out each record's coverage (JSON output, ``--notes``); about 5 % of engine time
+    coverage: bool = False
     #: False when no report of the run shows info findings: their lines are not looked up
     locate_info: bool = True
 
@@ -192,14 +206,18 @@ class Settings:
         return self.options.get(rule, _NO_OPTIONS).get(name, default)
 
     def enabled(self, rule: str) -> bool:
-        if rule in self.ignore:
+        if rule in self.skip:
             return False
-        return self.select is None or rule in self.select
+        return self.only is None or rule in self.only
+
+    def every_rule(self) -> Settings:
+        """The same options with every rule enabled: the diagnosis reads the whole record."""
+        return Settings(options=self.options)
 
     @property
     def narrowed(self) -> bool:
-        """True when ``select`` or ``ignore`` may leave a rule out."""
-        return self.select is not None or bool(self.ignore)
+        """True when ``only`` or ``skip`` may leave a rule out."""
+        return self.only is not None or bool(self.skip)
 
 
 class Sheet:
@@ -282,9 +300,12 @@ class Sheet:
             exp.update(expected_text)
         if actual_text:
             act.update(actual_text)
+        exp_values = number_entries(expected, expected_text)
+        act_values = number_entries(actual, actual_text)
         fields = tuple(fields)
         location = None
-        if self.locate is not None and (severity != "info" or self.settings.locate_info):
+        if self.locate is not None and (severity != "info" or self.settings.locate_info
+                                        or relation.rule in self.settings.severity):
             located = self.located
             for f in fields:
                 if f in located:
@@ -294,12 +315,42 @@ class Sheet:
                 if location:
                     break
         return Finding(relation.rule, severity, message, fields, exp, act, deviation, cause,
-                       source if source is not None else relation.source, location)
+                       source if source is not None else relation.source, location,
+                       expected_values=exp_values, actual_values=act_values)
+
+
+#: a number with an optional comparison in front and a unit after it: "≤ 1446 r/min"
+_NUMBER_TEXT = re.compile(r"^\s*(?P<bound>[≤≥<>]=?)?\s*(?P<value>[-+−]?\d+(?:\.\d*)?"
+                          r"(?:[eE][-+]?\d+)?)\s*(?P<unit>.*?)\s*$")
+
+
+def number_entries(si_values: Mapping[str, float] | None,
+             texts: Mapping[str, str] | None) -> dict[str, dict[str, Any]]:
+    """``{"value", "unit"}`` per field for the JSON output: SI values in their display unit;
+    a text given instead is read when it is one number with a unit (``"≤ 1446 r/min"`` adds
+    ``"bound": "≤"``) and left out otherwise."""
+    out: dict[str, dict[str, Any]] = {}
+    for name, si_value in (si_values or {}).items():
+        value, unit = display_quantity(name, si_value)
+        if name.endswith("efficiency"):
+            value, unit = value * 100.0, "%"
+        out[name] = {"value": float(f"{value:.6g}"), "unit": unit}
+    for name, text in (texts or {}).items():
+        match = _NUMBER_TEXT.match(text)
+        if match is None:
+            out.pop(name, None)
+            continue
+        entry: dict[str, Any] = {"value": float(match["value"].replace("−", "-")),
+                                 "unit": match["unit"]}
+        if match["bound"]:
+            entry["bound"] = match["bound"]
+        out[name] = entry
+    return out
 
 
 @dataclass(frozen=True, slots=True)
 class RuleOption:
-    """A tunable of a rule, set as ``rules.<rule>.<name>`` in a configuration file.
+    """A tunable of a rule, set as ``tuning.<rule>.<name>`` in a configuration file.
 
     ``kind`` is ``number`` (a finite number) or ``band`` (two numbers, low ≤ high); the
     configuration is checked against it when it is read, so a relation can trust the value.
@@ -317,7 +368,7 @@ class Relation:
 
     Subclasses declare their identity as class attributes and implement ``derive`` (values the
     relation can fill in) and ``check`` (findings when the sheet contradicts it). The class
-    docstring is the rule's documentation (``sheetlint explain RULE``): what it checks, why it
+    docstring is the rule's documentation (``sheetlint rules RULE``): what it checks, why it
     matters, an example that fails, the fix, references.
     """
 
@@ -328,7 +379,7 @@ class Relation:
     kind: ClassVar[str] = "exact"  # exact | bound | band | model | table | correction | safety
     severity_policy: ClassVar[str] = ""
     source: ClassVar[str] = ""
-    status: ClassVar[str] = "stable"  # stable | preview
+    status: ClassVar[str] = "established"  # established | trial
     #: relations are run in ascending order of ``order`` within each derive round and check
     order: ClassVar[int] = 50
     #: the fields ``derive`` reads; the engine calls it again only when one of them appears.

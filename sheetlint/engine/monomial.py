@@ -39,12 +39,32 @@ class Evaluation:
     relation: Monomial
     fields: tuple[str, ...]
     residual: float  # ln(actual/expected) of the reported field, scaled to exponent 1
-    tolerance: float  # allowed |residual|
+    low: float  # the least residual allowed (written digits and the relation's allowance)
+    high: float  # the largest residual allowed
     knowns: list[Known] = dataclass_field(default_factory=list)  # the value of each term
     exponents: tuple[float, ...] = ()  # the exponent of each term
     scale: float = 1.0  # exponent of the reported field
     finding: Finding | None = None
     _coefficients: Any = _PENDING
+
+    def miss(self, residual: float | None = None) -> float:
+        """How far ``residual`` (default: this evaluation's) lies outside the allowed interval,
+        in log units; 0 inside it."""
+        r = self.residual if residual is None else residual
+        if r > self.high:
+            return r - self.high
+        if r < self.low:
+            return self.low - r
+        return 0.0
+
+    @property
+    def fails(self) -> bool:
+        return self.residual > self.high or self.residual < self.low
+
+    @property
+    def half_width(self) -> float:
+        """Half the allowed interval: a miss beyond it is an error (DESIGN.md, Judgement 4)."""
+        return (self.high - self.low) / 2
 
     @property
     def coefficients(self) -> dict[str, float] | None:
@@ -108,8 +128,20 @@ class Monomial(Relation):
         return True
 
     def allowance(self, sheet: Sheet) -> float:
-        """Extra relative tolerance beyond the written digits (e.g. an IEC tolerance)."""
+        """Extra relative tolerance beyond the written digits (e.g. an IEC tolerance), the same
+        both ways; override :meth:`allowed` for a one-sided or shifted interval."""
         return 0.0
+
+    def allowed(self, sheet: Sheet) -> tuple[float, float]:
+        """The interval of ln(actual/expected) the relation admits beyond the written digits:
+        (least, largest). Identities admit nothing; balances a one-sided standard tolerance;
+        models a named band; unstated conditions widen it to every admissible reading."""
+        a = self.allowance(sheet)
+        return -a, a
+
+    def reading_note(self, sheet: Sheet) -> str:
+        """The reading assumed for an unstated condition, named in a failure's message."""
+        return ""
 
     def field_names(self, sheet: Sheet) -> dict[str, float]:
         if self.prefix == "rated.":
@@ -215,9 +247,10 @@ class Monomial(Relation):
                 a0 = exponent
             log_residual += exponent * math.log(value)
             tolerance += abs(exponent) * k.uncertainty  # type: ignore[union-attr]
-        tolerance = tolerance / abs(a0) + self.allowance(sheet)
-        return Evaluation(self, names, log_residual / a0, tolerance, knowns,  # type: ignore[arg-type]
-                          exponents, a0)
+        precision = tolerance / abs(a0)
+        low, high = self.allowed(sheet)
+        return Evaluation(self, names, log_residual / a0, low - precision,  # type: ignore[arg-type]
+                          high + precision, knowns, exponents, a0)
 
     def reported_field(self, sheet: Sheet) -> str:
         return self.at(self.reported)
@@ -233,7 +266,7 @@ class Monomial(Relation):
             evaluation = variant.evaluate(sheet)
             if evaluation is None:
                 continue
-            if abs(evaluation.residual) > evaluation.tolerance:
+            if evaluation.fails:
                 evaluation.finding = variant.failure(sheet, evaluation)
             out.append(evaluation)
         return out
@@ -255,10 +288,11 @@ class Monomial(Relation):
         return iter(())
 
     def severity(self, sheet: Sheet, evaluation: Evaluation) -> str:
-        """error by default; warning when an estimate took part."""
+        """DESIGN.md, Judgement 4: an error when the miss exceeds the allowance by more than the
+        allowance itself, a warning within that; a warning at most when an estimate took part."""
         if any(sheet.values[f].is_estimate for f in evaluation.fields):
             return "warning"
-        return "error"
+        return "error" if evaluation.miss() > evaluation.half_width else "warning"
 
     def failure(self, sheet: Sheet, evaluation: Evaluation) -> Finding:
         reported = self.reported_field(sheet)
@@ -266,11 +300,23 @@ class Monomial(Relation):
         expected = actual / math.exp(evaluation.residual)
         deviation = actual / expected - 1.0
         others = [f for f in evaluation.fields if f != reported]
+        note = self.reading_note(sheet)
         message = (f"{self.describe(sheet, evaluation)}: {reported} is {deviation:+.1%} off the "
-                   f"value the other fields give (tolerance ±{evaluation.tolerance:.1%})")
+                   f"value the other fields give; {allowed_text(evaluation)}"
+                   + (f" ({note})" if note else ""))
         finding = sheet.finding(self, self.severity(sheet, evaluation),  # type: ignore[arg-type]
                                 message, (reported, *others),
                                 expected={reported: expected}, actual={reported: actual},
                                 deviation=deviation)
         evaluation.finding = finding
         return finding
+
+
+def allowed_text(evaluation: Evaluation) -> str:
+    """The allowed interval on the same (linear) scale as the deviation: "allowed −0.5 % …
+    +0.5 %"."""
+    low = math.expm1(evaluation.low)
+    high = math.expm1(evaluation.high)
+    if abs(low + high) < 0.0005:
+        return f"allowed ±{high:.1%}"
+    return f"allowed {low:+.1%} … {high:+.1%}"

@@ -12,8 +12,8 @@ from typing import Any
 
 from pydantic import ValidationError
 
+from sheetlint.coverage import sheet_coverage
 from sheetlint.engine.build import build_sheet
-from sheetlint.engine.causes import diagnose
 from sheetlint.engine.core import (
     DERIVED,
     ESTIMATE,
@@ -25,6 +25,7 @@ from sheetlint.engine.core import (
     Settings,
     Sheet,
 )
+from sheetlint.engine.diagnosis import explain
 from sheetlint.engine.monomial import Evaluation, Monomial
 from sheetlint.fields import display_quantity
 from sheetlint.intake.records import RawRecord
@@ -47,6 +48,8 @@ class RecordResult:
     derived: dict[str, Known] = field(default_factory=dict)
     sheet: Sheet | None = None
     index: int | None = None
+    #: which rules checked the record and which fields the others miss (sheetlint.coverage)
+    coverage: dict[str, Any] | None = None
 
 
 def validation_message(exc: ValidationError, data: Any) -> str:
@@ -139,29 +142,46 @@ def run_engine(record: MachineRecord, settings: Settings | None = None, locate: 
     sheet, notes = build_sheet(record, settings, locate)
     if duplicates:  # keys written twice in the file (relations/document.py reports them)
         sheet.attributes["document.duplicate_keys"] = duplicates
+    given = dict(sheet.values)
+    attributes = dict(sheet.attributes)
+    # every rule is checked and diagnosed, so that a cause reconciles the whole record; rules
+    # left out by the selection are dropped afterwards
+    everything = settings.every_rule()
+
+    def recheck(values: dict[str, Known]) -> list[Finding]:
+        return check_sheet(Sheet(record.id, values, dict(attributes), everything), everything)
+
+    findings = explain(sheet, given, check_sheet(sheet, everything), recheck,
+                       settings.enabled)
+    findings = [*notes, *findings]
+    _estimate(sheet, relations_with("estimate"))
+    if settings.narrowed:
+        findings = [f for f in findings if settings.enabled(f.rule) or f.rule == "unreadable"]
+    _apply_acceptances(sheet, findings)
+    if settings.severity:
+        _apply_severities(settings.severity, findings)
+    findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))
+    derived = {name: k for name, k in sheet.values.items() if k.origin != GIVEN}
+    return RecordResult(record.id, None, findings, derived, sheet, index,
+                        sheet_coverage(sheet, findings) if settings.coverage else None)
+
+
+def check_sheet(sheet: Sheet, settings: Settings) -> list[Finding]:
+    """Screen, derive to a fixed point and check one sheet: its findings, causes not yet named."""
     relations = all_relations()
-    findings: list[Finding] = list(notes)
+    findings: list[Finding] = []
     for relation in relations_with("screen"):
         findings.extend(relation.screen(sheet))  # type: ignore[attr-defined]
     derive(sheet, relations)
     evaluations: list[Evaluation] = []
-    narrowed = settings.narrowed
-    # the relations that check anything; a rule left out by select/ignore is not checked,
-    # except a monomial: every failing monomial takes part in the cause diagnosis of the others
     checked = relations_where(
-        ("checked", settings.select, settings.ignore),
-        lambda r: _checks(r) and (settings.enabled(r.rule) or isinstance(r, Monomial)))
+        ("checked", settings.only, settings.skip),
+        lambda r: _checks(r) and settings.enabled(r.rule))
     for relation in checked:
         check_relation(relation, sheet, findings, evaluations)
-    findings.extend(_explain_failures(sheet, evaluations))
+    findings.extend(e.finding for e in evaluations if e.finding is not None)
     findings.extend(sheet.findings)
-    _estimate(sheet, relations_with("estimate"))
-    if narrowed:
-        findings = [f for f in findings if settings.enabled(f.rule) or f.rule == "unreadable"]
-    _apply_suppressions(sheet, findings)
-    findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))
-    derived = {name: k for name, k in sheet.values.items() if k.origin != GIVEN}
-    return RecordResult(record.id, None, findings, derived, sheet, index)
+    return findings
 
 
 def _checks(relation: Relation) -> bool:
@@ -290,46 +310,33 @@ def _derive_plan(relations: tuple[Any, ...]) -> DerivePlan:
                       tuple(i for i, step in enumerate(steps) if step[3]))
 
 
-def _explain_failures(sheet: Sheet, evaluations: list[Evaluation]) -> list[Finding]:
-    """Findings of failing monomial relations, with the cause and severity the slips decide."""
-    causes = diagnose(sheet, evaluations)
-    out: list[Finding] = []
-    for i, evaluation in enumerate(evaluations):
-        finding = evaluation.finding
-        if finding is None:
-            continue
-        candidates = causes.get(i, [])
-        if candidates:
-            finding.cause = "; or ".join(c.text() for c in candidates[:3])
-            if len(candidates) == 1 or len({c.field for c in candidates}) == 1:
-                cause = candidates[0]
-                known = sheet.get(cause.field)
-                if cause.slip.basis and known is not None and not known.basis_stated:
-                    finding.severity = "warning"
-                    finding.message += (f"; the sheet does not state the basis of "
-                                        f"{cause.field}: please state it")
-                if cause.field not in finding.fields:
-                    finding.fields = (*finding.fields, cause.field)
-        out.append(finding)
-    return out
-
-
-def _apply_suppressions(sheet: Sheet, findings: list[Finding]) -> None:
-    entries = sheet.attr("suppress") or []
+def _apply_acceptances(sheet: Sheet, findings: list[Finding]) -> None:
+    """Mark the findings the record's ``accepted`` list covers (rule, and every listed field
+    among the finding's fields) with the reason; an entry that covers none is stale."""
+    entries = sheet.attr("accepted") or []
     if not entries:
         return
     used: set[int] = set()
     for f in findings:
-        for i, (rule, reason, field_name) in enumerate(entries):
-            if rule == f.rule and (field_name is None or field_name in f.fields):
-                f.suppressed = reason
+        for i, (rule, reason, fields) in enumerate(entries):
+            if rule == f.rule and all(name in f.fields for name in fields):
+                f.accepted = reason
                 used.add(i)
                 break
-    marker = relation_for("unused-suppression")
-    for i, (rule, _reason, _field) in enumerate(entries):
+    marker = relation_for("stale-acceptance")
+    for i, (rule, _reason, fields) in enumerate(entries):
         if i not in used:
-            findings.append(sheet.finding(marker, "info", f"suppression of '{rule}' no longer "
-                                          "matches any finding; remove it", ("suppress",)))
+            what = f"'{rule}'" + (f" on {', '.join(fields)}" if fields else "")
+            findings.append(sheet.finding(marker, "info", f"the acceptance of {what} no longer "
+                                          "matches any finding; remove it", ("accepted",)))
+
+
+def _apply_severities(levels: dict[str, str], findings: list[Finding]) -> None:
+    """The configuration's ``severity`` table: each listed rule's findings take its level."""
+    for f in findings:
+        level = levels.get(f.rule)
+        if level is not None:
+            f.severity = level  # type: ignore[assignment]
 
 
 def derived_payload(derived: dict[str, Known]) -> dict[str, Any]:

@@ -26,12 +26,23 @@ def remanence_coefficient(magnet: str | None) -> float:
     return REMANENCE_COEFFICIENT.get((magnet or "ndfeb").lower(), REMANENCE_COEFFICIENT["ndfeb"])
 
 
+#: the temperature the coefficients refer to: B_r(T) = B_r(20 °C)·(1 + α·(T − 20 °C))
+REFERENCE_KELVIN = 293.15
+
+
 def remanence_factor(magnet: str | None, from_kelvin: float, to_kelvin: float,
                      alpha: float | None = None) -> float:
-    """B_r(to)/B_r(from) = 1 + alpha·(to − from), the factor on back-EMF and Kt.
+    """B_r(to)/B_r(from), the factor on back-EMF and Kt, with both temperatures referred to
+    20 °C (the temperature the coefficients are published for):
+
+    .. math::
+        \\frac{B_r(T_2)}{B_r(T_1)} = \\frac{1 + \\alpha\\,(T_2 - 20)}{1 + \\alpha\\,(T_1 - 20)}
+
+    so that a round trip 20 → 120 → 20 °C gives exactly 1 (linearising from T_1 instead
+    gives 0.96 for ferrite).
 
     Example (REFERENCES.md §6, derived vector): NdFeB, 50.0 V/krpm at 20 °C gives
     50.0 × remanence_factor("NdFeB", 293.15, 393.15) = 44.5 V/krpm at 120 °C.
     """
     a = remanence_coefficient(magnet) if alpha is None else alpha
-    return 1.0 + a * (to_kelvin - from_kelvin)
+    return (1.0 + a * (to_kelvin - REFERENCE_KELVIN)) / (1.0 + a * (from_kelvin - REFERENCE_KELVIN))

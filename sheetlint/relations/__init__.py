@@ -7,5 +7,7 @@ from sheetlint.relations import (  # noqa: F401
     emf,
     machine,
     mechanics,
+    servo,
     standards,
+    torque,
 )

@@ -3,12 +3,17 @@
 from __future__ import annotations
 
 import functools
+import math
 from collections.abc import Callable, Iterator
 
 from sheetlint.engine.core import Finding, Relation, Sheet
 from sheetlint.fields import display, spec_for
 from sheetlint.relations.registry import register
 
+#: fields whose relations assume three phases: left out for a machine of another phase count
+ELECTRICAL_NAMES = ("voltage", "current", "power_factor", "efficiency")
+ELECTRICAL_PREFIXES = ("emf.", "torque_constant", "circuit.", "rated.losses", "supply.",
+                       "limits.peak_current")
 KNOWN_THERMAL_CLASSES = (105, 120, 130, 155, 180, 200, 220)
 #: SI magnitudes outside this envelope belong to no electrical machine (a 1e-15 H inductance,
 #: a 1e15 W motor); they are refused so that no relation computes with them
@@ -23,10 +28,14 @@ class ValueRange(Relation):
     """Values that cannot be physically true.
 
     What it checks: magnitudes are positive (power, torque, speed, frequency, voltage, current,
+    except the speed, power and frequency of a listed point, which may be 0: a standstill point,
     resistance, inductance, Ke, Kt, flux, losses, mass, inertia, temperatures in kelvin);
     efficiency and power factor lie in (0, 1]; efficiency below 1; the pole count is an even
     integer of at least 2 (pole pairs and phases positive integers); a thermal class is one
-    of IEC 60085's.
+    of IEC 60085's. A machine of another phase count than three is reported (warning) and its
+    electrical values are left out: every electrical relation here assumes three phases.
+    Derived values are checked too: an efficiency or power factor the other
+    values make 1 or more is an error naming the values it came from.
 
     Why it matters: an impossible value poisons every relation it enters. The value is
     reported as an error and left out, and every other relation is still checked.
@@ -56,11 +65,43 @@ class ValueRange(Relation):
             yield sheet.finding(self, "error",
                                 f"{path} = {known.text or display(path, known.value)}: "
                                 f"{problem}; the value is left out of all other checks", (path,))
+        phases = values.get("machine.phases")
+        if phases is not None and phases.value != 3:
+            # every electrical relation here is written for three phases (√3, 3·I²·R, the dq
+            # model): rather than check with the wrong factors, leave the electrical values out
+            dropped = [p for p in list(values) if p.split(".")[-1] in ELECTRICAL_NAMES
+                       or p.startswith(ELECTRICAL_PREFIXES)]
+            for path in dropped:
+                values.pop(path)
+            yield sheet.finding(self, "warning", f"machine.phases = {phases.value:g}: sheetlint's "
+                                "electrical relations hold for three-phase machines only; the "
+                                "electrical values were not checked (power, torque, speed and "
+                                "frequency were)", ("machine.phases",))
         for name in ("machine.thermal_class", "machine.temperature_rise_class"):
             cls = sheet.attr(name)
             if cls is not None and cls not in KNOWN_THERMAL_CLASSES:
                 yield sheet.finding(self, "warning", f"{name} '{cls}' is not an IEC 60085 "
                                     "thermal class (130/B, 155/F, 180/H, ...)", (name,))
+
+    def check(self, sheet: Sheet) -> Iterator[Finding]:
+        """Derived efficiencies and power factors: one at or above 1 beyond the precision of
+        its inputs is a hard contradiction of the values it came from."""
+        for path, known in sheet.values.items():
+            if known.is_given or not path.endswith(DERIVED_CHECKED):
+                continue
+            if known.value * (1.0 - known.uncertainty) >= 1.0:
+                what = "efficiency" if path.endswith("efficiency") else "power factor"
+                yield sheet.finding(
+                    self, "error", f"{path} derived from {', '.join(known.inputs)} comes out "
+                    f"at {known.value:.3f}: a {what} of 1 or more is impossible, so one of "
+                    "those values is wrong", (*known.inputs, path),
+                    expected={path: 1.0}, actual={path: known.value},
+                    deviation=known.value - 1.0)
+
+
+#: derived values that a sheet's other values can make impossible (DESIGN.md, Judgement 4:
+#: derived values are range-checked like given ones)
+DERIVED_CHECKED = ("efficiency", "power_factor")
 
 
 def _efficiency(value: float) -> str | None:
@@ -76,12 +117,16 @@ def _power_factor(value: float) -> str | None:
 
 
 def _pole_count(value: float) -> str | None:
+    if not math.isfinite(value) or value > MAGNITUDE_ENVELOPE[1]:
+        return "far outside the range of any electrical machine"
     if value < 2 or value != int(value) or int(value) % 2:
         return "a pole count must be an even integer of at least 2"
     return None
 
 
 def _positive_integer(value: float) -> str | None:
+    if not math.isfinite(value) or value > MAGNITUDE_ENVELOPE[1]:
+        return "far outside the range of any electrical machine"
     if value < 1 or value != int(value):
         return "must be a positive integer"
     return None
@@ -112,6 +157,10 @@ def _magnitude(value: float) -> str | None:
     return None
 
 
+def _standstill_or_positive(value: float) -> str | None:
+    return None if value == 0.0 else _magnitude(value)
+
+
 @functools.cache
 def _range_test(path: str) -> Callable[[float], str | None]:
     """The test of physically possible values for a field path (chosen once per path)."""
@@ -129,6 +178,8 @@ def _range_test(path: str) -> Callable[[float], str | None]:
         return _magnet_temperature if "magnet_temperature" in path else _temperature
     if path == "machine.altitude" or path.startswith("rated.losses."):
         return _not_negative
+    if path.startswith("points[") and path.endswith(("].speed", "].power", "].frequency")):
+        return _standstill_or_positive  # a point at 0 rpm is a standstill (stall) point
     if kind == "temperature_difference":
         return _not_negative
     return _magnitude
@@ -156,21 +207,25 @@ class UnknownFields(Relation):
 
 
 @register
-class UnusedSuppression(Relation):
-    """A suppression in the record that no longer matches any finding.
+class StaleAcceptance(Relation):
+    """An acceptance in the record that no longer matches any finding.
 
-    What it checks: every entry of the record's ``suppress`` list (rule id, optional field,
-    mandatory reason) still covers a finding. One that covers nothing has outlived the problem
-    it documented (the data were corrected, or the rule changed) and should be removed, so that
-    a later regression is not silenced by it.
+    What it checks
+        Every entry of the record's ``accepted`` list (rule id, the fields it concerns, a
+        mandatory reason) still covers a finding.
 
-    Fix: delete the entry.
+    What it tells you
+        An entry that covers nothing has outlived the deviation it documented (the data were
+        corrected, or the rule changed). Left in place it would hide a later regression.
+
+    What to do
+        Delete the entry.
     """
 
-    rule = "unused-suppression"
-    title = "suppressions that match nothing"
-    equation = "each suppression covers ≥ 1 finding"
+    rule = "stale-acceptance"
+    title = "acceptances that match nothing"
+    equation = "each acceptance covers ≥ 1 finding"
     kind = "bound"
     severity_policy = "info"
-    source = "sheetlint data contract (suppress)"
+    source = "sheetlint data contract (accepted)"
     order = 0

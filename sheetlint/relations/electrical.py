@@ -29,10 +29,11 @@ class ElectricalPower(Monomial):
     .. math:: P = \\eta\\,\\sqrt{3}\\,U\\,I\\cos\\varphi
 
     What it checks: rated (and every point's) power, efficiency, line voltage, line current and
-    power factor agree. The declared η and cos φ may each be off by the IEC 60034-1 tolerance
-    (η: −15 % of (1 − η) up to 150 kW, −10 % above; cos φ: −(1 − cos φ)/6, 0.02…0.07), which
-    is allowed on top of the rounding (for cos φ by analogy: the standard states it for
-    induction machines).
+    power factor agree. The machine may fall short of the declared η and cos φ by the
+    IEC 60034-1 tolerance (η: −15 % of (1 − η) up to 150 kW, −10 % above; cos φ:
+    −(1 − cos φ)/6, 0.02…0.07; for cos φ by analogy: the standard states it for induction
+    machines), so the current may lie above the balance of the declared values by as much —
+    never below it.
 
     Why it matters: a current or power factor copied from another rating, a phase voltage
     labelled line, or a power in hp all break this balance.
@@ -54,8 +55,9 @@ class ElectricalPower(Monomial):
              "rated.voltage": 1.0, "rated.power_factor": 1.0}
     reported = "rated.current"
     derive_fields = ("rated.current", "rated.power_factor", "rated.efficiency")
-    kind = "exact"
-    severity_policy = "error beyond rounding plus the IEC 60034-1 tolerances on η and cos φ"
+    kind = "balance"
+    severity_policy = ("error beyond rounding plus the one-sided IEC 60034-1 tolerances on η "
+                       "and cos φ (a current above the balance only)")
     source = "IEC 60034-1:2010, tolerances on declared values (η, cos φ), as quoted"
     per_point = True
     order = 12
@@ -63,12 +65,19 @@ class ElectricalPower(Monomial):
     def constant(self, sheet: Sheet) -> float:
         return INVERSE_SQRT3
 
-    def allowance(self, sheet: Sheet) -> float:
+    def allowed(self, sheet: Sheet) -> tuple[float, float]:
+        """One-sided, as IEC 60034-1's tolerances are: a machine may reach η and cos φ short
+        of the declared values by the tolerance, so the current may lie *above* the balance of
+        the declared values by as much, never below it."""
         values, at = sheet.values, self.at
         eta = values[at("rated.efficiency")].value
         cos_phi = values[at("rated.power_factor")].value
         power = values[at("rated.power")].value
-        return efficiency_tolerance(eta, power) / eta + power_factor_tolerance(cos_phi) / cos_phi
+        least_eta = eta - efficiency_tolerance(eta, power)
+        least_cos_phi = cos_phi - power_factor_tolerance(cos_phi)
+        if least_eta <= 0 or least_cos_phi <= 0:
+            return 0.0, 0.0
+        return 0.0, math.log(eta / least_eta) + math.log(cos_phi / least_cos_phi)
 
 
 @register
@@ -96,9 +105,9 @@ class LossBalance(Relation):
     equation = "P_loss = P/η − P; Σ parts = P_loss; 3·I²·R ≤ P_loss"
     fields = ("rated.losses", "rated.power", "rated.efficiency", "rated.current",
               "circuit.resistance")
-    kind = "exact"
+    kind = "balance"
     severity_policy = "error beyond rounding; error when the copper loss exceeds the losses"
-    source = "IEC 60034-2-1:2014, determination of losses (summation), from memory"
+    source = "IEC 60034-2-1:2014, determination of losses (summation)"
     order = 14
     derive_inputs = ("rated.power", "rated.efficiency", "rated.losses", "rated.current",
                      "circuit.resistance_hot", "rated.losses.copper")
@@ -236,7 +245,7 @@ class ResistanceDrop(Relation):
     fields = ("circuit.resistance", "rated.current", "rated.voltage")
     kind = "band"
     severity_policy = "warning outside the band; info with the standstill voltage"
-    source = "common practice (no published source): REFERENCES.md §9"
+    source = "common practice (no published source)"
     order = 60
     options = {
         "low": RuleOption("number", "0.001", "standstill voltage below this share of the "

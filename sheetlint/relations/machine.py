@@ -1,5 +1,6 @@
 """Machine model: the steady-state dq model against the sheet, converter voltage, field
-weakening, overspeed back-EMF, open-loop pull-out margin and short-circuit current.
+weakening, overspeed back-EMF and open-loop pull-out margin (the short-circuit current is in
+:mod:`sheetlint.relations.servo`).
 
 The physics lives in :mod:`sheetlint.physics.dq` (pure functions on SI floats); this module
 gathers the model's inputs from a sheet, states which assumptions it made, and turns the
@@ -15,9 +16,9 @@ from dataclasses import dataclass, field
 from typing import Any, TypeVar
 
 from sheetlint.cautions import FINDING_CAUTION as CAUTION
-from sheetlint.engine.core import Finding, Relation, RuleOption, Sheet
+from sheetlint.engine.core import Finding, Known, Relation, RuleOption, Sheet
+from sheetlint.physics.converter import drive_voltages
 from sheetlint.physics.dq import (
-    DIODE_BRIDGE_DC_RATIO,
     RPM,
     SQRT2,
     DqMachine,
@@ -30,9 +31,9 @@ from sheetlint.physics.dq import (
     operating_point,
     peak_line_back_emf,
     speed_at_back_emf,
-    svpwm_line_voltage,
 )
 from sheetlint.physics.magnets import remanence_factor
+from sheetlint.relations.emf import is_supply_class
 from sheetlint.relations.registry import register
 from sheetlint.standards.tolerances import power_factor_tolerance
 from sheetlint.units import ROOM_TEMPERATURE as ROOM
@@ -40,9 +41,10 @@ from sheetlint.units import ROOM_TEMPERATURE as ROOM
 DQ_SOURCE = ("steady-state dq model of the sinusoidal PM synchronous machine "
              "(amplitude-invariant): "
              "R. Krishnan, Permanent Magnet Synchronous and Brushless DC Motor Drives, CRC Press "
-             "2010 (chapter from memory)")
+             "2010")
 CONVERTER_SOURCE = ("six-pulse diode bridge U_dc = 3·√2/π·U_LL and space-vector modulation "
-                    "U_LL,rms ≤ U_dc/√2 (power-electronics texts, REFERENCES.md §8)")
+                    "U_LL,rms ≤ U_dc/√2 (power-electronics texts, e.g. Mohan, Undeland, "
+                    "Robbins, Power Electronics, 3rd ed., Wiley 2003)")
 
 
 CheckMethod = Callable[[Relation, Sheet], Iterator[Finding]]
@@ -326,54 +328,62 @@ def _point_torque(sheet: Sheet, prefix: str) -> tuple[float, list[str], float] |
 class VoltageLimit:
     """The largest line rms voltage the converter gives, and how it was found."""
 
-    line_rms: float
+    line_rms: float  # linear modulation: the limit of every model calculation
     how: str
     fields: list[str]
     from_supply: bool
+    overmodulation: float  # what a point may need at most, with overmodulation
 
 
 def converter_voltage_limit(sheet: Sheet) -> VoltageLimit | None:
-    """Largest fundamental line voltage [V rms]: from the DC link, the mains, or rated voltage.
-
-    - DC link U_dc stated: U_dc/√2 (space-vector modulation, linear range).
-    - Mains U_mains stated: a diode front end gives U_dc ≈ 1.35·U_mains under load, so the
-      linear SVPWM limit is 0.955·U_mains; with overmodulation a fundamental up to U_mains is
-      deliverable, which is the limit used (the assumption is stated in the finding).
-    - Neither: the rated voltage, taking the sheet's rated point as where the limit is reached.
-    """
+    """The voltage limit of the running drive [V line rms] (DESIGN.md, Judgement 3): linear
+    modulation U_dc/√2, from a stated DC link or the diode front end's 1.35·U_mains under
+    load; with no supply stated, the rated voltage (the rated point is where the limit is
+    reached)."""
     get = sheet.values.get
-    dc = get("supply.dc_link_voltage")
-    if dc is not None and dc.value > 0.0:
-        return VoltageLimit(svpwm_line_voltage(dc.value),
-                            f"space-vector modulation from the stated DC link "
-                            f"{dc.value:.0f} V: U_dc/√2", ["supply.dc_link_voltage"], True)
-    mains = get("supply.mains_voltage")
-    if mains is not None and mains.value > 0.0:
-        u_dc = DIODE_BRIDGE_DC_RATIO * mains.value
-        return VoltageLimit(mains.value,
-                            f"diode front end on {mains.value:.0f} V mains: U_dc ≈ 1.35·U_mains "
-                            f"= {u_dc:.0f} V under load, linear SVPWM up to "
-                            f"{svpwm_line_voltage(u_dc):.0f} V; assumed that overmodulation "
-                            f"delivers up to the mains voltage", ["supply.mains_voltage"], True)
+    dc, mains = get("supply.dc_link_voltage"), get("supply.mains_voltage")
+    drive = drive_voltages(dc.value if dc is not None else None,
+                           mains.value if mains is not None else None)
+    if drive is not None:
+        fields = ["supply.dc_link_voltage"] if dc is not None and dc.value > 0.0 else [
+            "supply.mains_voltage"]
+        return VoltageLimit(drive.linear, drive.how, fields, True, drive.overmodulation)
     rated = get("rated.voltage")
     if rated is not None and rated.value > 0.0:
         return VoltageLimit(rated.value, "no supply stated: the rated voltage is taken as the "
                             "voltage limit (the rated point is where the limit is reached)",
-                            ["rated.voltage"], False)
+                            ["rated.voltage"], False, rated.value)
     return None
 
 
 def dc_link_voltage(sheet: Sheet) -> tuple[float, str, list[str]] | None:
-    """DC-link voltage [V] a tripped converter's capacitors are charged to: stated or √2·U_mains."""
+    """DC-link voltage [V] a stopped converter's capacitors hold: stated, or √2·U_mains."""
     get = sheet.values.get
-    dc = get("supply.dc_link_voltage")
+    dc, mains = get("supply.dc_link_voltage"), get("supply.mains_voltage")
+    drive = drive_voltages(dc.value if dc is not None else None,
+                           mains.value if mains is not None else None)
+    if drive is None:
+        return None
     if dc is not None and dc.value > 0.0:
-        return dc.value, "stated DC link", ["supply.dc_link_voltage"]
-    mains = get("supply.mains_voltage")
-    if mains is not None and mains.value > 0.0:
-        return (SQRT2 * mains.value, f"√2·U_mains = {SQRT2 * mains.value:.0f} V, the DC link of "
-                f"a diode front end at no load", ["supply.mains_voltage"])
-    return None
+        return drive.dc_link_no_load, "stated DC link", ["supply.dc_link_voltage"]
+    return (drive.dc_link_no_load, f"√2·U_mains = {drive.dc_link_no_load:.0f} V, the DC link of "
+            "a diode front end at no load", ["supply.mains_voltage"])
+
+
+def _highest_speed(sheet: Sheet) -> tuple[str, Known] | None:
+    """The highest speed the sheet names: the maximum speed, else the highest listed or rated
+    speed (the unsafe end for the overspeed check)."""
+    get = sheet.values.get
+    top = get("limits.max_speed")
+    if top is not None and top.value > 0.0:
+        return "limits.max_speed", top
+    best: tuple[str, Known] | None = None
+    for name in ["rated.speed", *(f"{p}.speed" for p in _point_prefixes(sheet))]:
+        known = get(name)
+        if known is not None and known.value > 0.0 and (best is None
+                                                        or known.value > best[1].value):
+            best = (name, known)
+    return best
 
 
 def _point_prefixes(sheet: Sheet) -> list[str]:
@@ -474,7 +484,7 @@ class DqOperatingPoint(Relation):
     severity_policy = ("warning outside the saturation band; error when the stated current "
                        "cannot make rated torque with 25 % to spare (given inputs only)")
     source = DQ_SOURCE
-    status = "stable"
+    status = "established"
     order = 72
     options = {
         "lq_saturation": RuleOption("number", "0.30", "fall of L_q at rated load by "
@@ -582,7 +592,9 @@ class DqOperatingPoint(Relation):
             tol = unc + rated_u.uncertainty
             lo, hi = band.voltage
             if u_sheet > hi * (1.0 + tol):
-                far = u_sheet > hi * (1.25 + tol)
+                # far above the need is a warning, unless the sheet lists the supply class as
+                # its rated voltage, as servo catalogues do (then an info)
+                far = u_sheet > hi * (1.25 + tol) and not is_supply_class(u_sheet)
                 mismatches.append(("rated.voltage", "warning" if far else "info",
                                    nominal.line_voltage_rms, u_sheet,
                                    f"the model needs only {lo:.4g}–{hi:.4g} V at the rated "
@@ -728,11 +740,14 @@ class VoltageLimitRelation(Relation):
         rated_u = sheet.values.get("rated.voltage")
         if (limit.from_supply and rated_u is not None
                 and rated_u.value > limit.line_rms * (1.0 + rated_u.uncertainty + 1e-9)):
+            beyond = rated_u.value > limit.overmodulation * (1.0 + rated_u.uncertainty + 1e-9)
+            reach = (f"beyond what overmodulation gives ({limit.overmodulation:.0f} V): the rated "
+                     f"point needs field weakening or a higher supply. {CAUTION}" if beyond else
+                     f"reachable only with overmodulation (up to {limit.overmodulation:.0f} V)")
             yield sheet.finding(
-                self, "warning",
-                f"The rated voltage {rated_u.value:.0f} V is above what the converter gives "
-                f"({limit.line_rms:.0f} V; {limit.how}): the rated point needs field weakening "
-                f"or a higher supply. {CAUTION}",
+                self, "warning" if beyond else "info",
+                f"The rated voltage {rated_u.value:.0f} V is above the converter's linear "
+                f"range ({limit.line_rms:.0f} V; {limit.how}): {reach}".rstrip(".") + ".",
                 ["rated.voltage", *limit.fields], expected={"rated.voltage": limit.line_rms},
                 actual={"rated.voltage": rated_u.value},
                 deviation=rated_u.value / limit.line_rms - 1.0)
@@ -760,6 +775,7 @@ class VoltageLimitRelation(Relation):
             margin = inputs.uncertainty + speed_known.uncertainty
             if need <= limit.line_rms * (1.0 + margin):
                 continue
+            beyond = need > limit.overmodulation * (1.0 + margin)
             fw = ""
             if modelled and torque is not None:
                 what = (f"the dq model needs {need:.0f} V (MTPA, {torque[0]:.4g} N·m at "
@@ -777,11 +793,13 @@ class VoltageLimitRelation(Relation):
                 cause = (f"the back-EMF at the magnet temperature used ({emf:.0f} V at "
                          f"{_rpm(speed)}) exceeds the voltage limit ({limit.line_rms:.0f} V)")
             voltage_field = "rated.voltage" if prefix == "rated" else f"{prefix}.speed"
+            verdict = (f"Beyond what overmodulation gives ({limit.overmodulation:.0f} V): field "
+                       f"weakening or a higher supply is needed. {CAUTION}" if beyond else
+                       f"Overmodulation gives up to {limit.overmodulation:.0f} V: reachable.")
             yield sheet.finding(
-                self, "warning",
-                f"{prefix}: {what}, above the converter's {limit.line_rms:.0f} V ({limit.how})."
-                f"{fw} Field weakening or a higher supply is needed. {_join(inputs.notes)}"
-                f"{CAUTION}",
+                self, "warning" if beyond else "info",
+                f"{prefix}: {what}, above the converter's linear range {limit.line_rms:.0f} V "
+                f"({limit.how}).{fw} {verdict} {_join(inputs.notes)}".rstrip(),
                 _unique([voltage_field, f"{prefix}.speed", *limit.fields, *inputs.fields]),
                 expected_text={voltage_field: f"≤ {limit.line_rms:.0f} V"},
                 actual_text={voltage_field: f"{need:.0f} V needed"},
@@ -826,7 +844,7 @@ class FieldWeakeningSpeed(Relation):
               "emf.constant", "rated.voltage")
     kind = "bound"
     severity_policy = "warning when the maximum speed exceeds the reach at rated current"
-    source = DQ_SOURCE + "; Soong & Miller, IEE Proc. EPA 141(6), 1994 (from memory)"
+    source = DQ_SOURCE + "; Soong & Miller, IEE Proc. EPA 141(6), 1994"
     order = 74
 
     @_guarded
@@ -907,7 +925,7 @@ class OverspeedEmf(Relation):
               "supply.mains_voltage", "machine.ambient.min")
     kind = "safety"
     severity_policy = "warning when the peak back-EMF at maximum speed exceeds the DC link"
-    source = CONVERTER_SOURCE + "; common practice (REFERENCES.md §9)"
+    source = CONVERTER_SOURCE + "; common practice"
     order = 75
 
     @_guarded
@@ -919,41 +937,51 @@ class OverspeedEmf(Relation):
         if ke is None or ke <= 0.0:
             return
         u_dc, dc_how, dc_fields = dc
-        crossing = speed_at_back_emf(ke, u_dc)
+        known = sheet.values.get(ke_field)
+        # the unsafe end of Ke: its written precision (or the spread of the readings it was
+        # derived from) raises it, never lowers it (DESIGN.md, Judgement 4)
+        ke_high = ke * (1.0 + (known.uncertainty if known is not None else 0.0))
+        crossing = speed_at_back_emf(ke_high, u_dc)
         temperature_note = f": {note}" if note else ""
-        max_speed = sheet.values.get("limits.max_speed")
+        top = _highest_speed(sheet)
         fields = [ke_field, *dc_fields]
-        if max_speed is None or max_speed.value <= 0.0:
+        if top is None:
             yield sheet.finding(
                 self, "info",
                 f"The peak line back-EMF (cold magnets{temperature_note}) reaches the DC link "
-                f"{u_dc:.0f} V ({dc_how}) at {_rpm(crossing)}; no maximum speed is given. "
-                f"{CAUTION}", fields)
-            return
-        peak = peak_line_back_emf(ke, max_speed.value)
-        fields.insert(0, "limits.max_speed")
-        k = sheet.values.get(ke_field)
-        margin = (k.uncertainty if k is not None else 0.0) + max_speed.uncertainty
-        if peak <= u_dc * (1.0 + margin):
-            yield sheet.finding(
-                self, "info",
-                f"Peak line back-EMF at the maximum speed {_rpm(max_speed.value)} is {peak:.0f} "
-                f"V (cold magnets{temperature_note}), within the DC link {u_dc:.0f} V "
-                f"({dc_how}); it would reach the DC link at {_rpm(crossing)}. {CAUTION}",
+                f"{u_dc:.0f} V ({dc_how}) at {_rpm(crossing)}; the sheet names no speed.",
                 fields)
             return
+        speed_field, speed_known = top
+        speed = speed_known.value * (1.0 + speed_known.uncertainty)
+        peak = peak_line_back_emf(ke_high, speed)
+        nominal = peak_line_back_emf(ke, speed_known.value)
+        fields.insert(0, speed_field)
+        which = ("the maximum speed" if speed_field == "limits.max_speed" else
+                 f"the highest speed the sheet names ({speed_field}; no maximum speed given)")
+        if peak <= u_dc:
+            yield sheet.finding(
+                self, "info",
+                f"Peak line back-EMF at {which} {_rpm(speed_known.value)} is {nominal:.0f} V "
+                f"(cold magnets{temperature_note}), within the DC link {u_dc:.0f} V "
+                f"({dc_how}); it would reach the DC link at {_rpm(crossing)}.",
+                fields)
+            return
+        within_digits = nominal <= u_dc
         yield sheet.finding(
             self, "warning",
-            f"At the maximum speed {_rpm(max_speed.value)} the peak line back-EMF is "
-            f"{peak:.0f} V (cold magnets{temperature_note}), above the DC link {u_dc:.0f} V "
-            f"({dc_how}); it reaches the DC link at {_rpm(crossing)}. If the converter trips or "
-            f"stops switching above that speed, the machine charges the DC link through the "
-            f"diodes: uncontrolled regeneration that can overvolt the converter. Add overvoltage "
-            f"protection as the converter manufacturer specifies, or limit the speed; follow the "
-            f"manufacturer and local codes. {CAUTION}",
-            fields, expected_text={"limits.max_speed": f"≤ {_rpm(crossing)}"},
-            actual={"limits.max_speed": max_speed.value},
-            deviation=max_speed.value / crossing - 1.0,
+            f"At {which} {_rpm(speed_known.value)} the peak line back-EMF "
+            f"{'may reach' if within_digits else 'is'} {peak if within_digits else nominal:.0f} "
+            f"V (cold magnets{temperature_note}"
+            f"{'; at the top of the written digits of Ke' if within_digits else ''}), above "
+            f"the DC link {u_dc:.0f} V ({dc_how}); it reaches the DC link at {_rpm(crossing)}. "
+            f"If the converter trips or stops switching above that speed, the machine charges "
+            f"the DC link through the diodes: uncontrolled regeneration that can overvolt the "
+            f"converter. Add overvoltage protection as the converter manufacturer specifies, or "
+            f"limit the speed; follow the manufacturer and local codes. {CAUTION}",
+            fields, expected_text={speed_field: f"≤ {_rpm(crossing)}"},
+            actual={speed_field: speed_known.value},
+            deviation=speed_known.value / crossing - 1.0,
             cause="back-EMF constant too high for this DC link at this speed")
 
     @staticmethod
@@ -1000,8 +1028,8 @@ class PullOutMargin(Relation):
     fields = ("rated.voltage", "rated.speed", "rated.torque", "circuit.ld", "circuit.lq")
     kind = "band"
     severity_policy = "warning when T_po/T_rated < min_ratio"
-    source = DQ_SOURCE + "; IEC 60034-1 (pull-out torque of synchronous motors, from memory)"
-    status = "preview"
+    source = DQ_SOURCE + "; IEC 60034-1 (pull-out torque of synchronous motors)"
+    status = "trial"
     order = 76
     options = {"min_ratio": RuleOption(
         "number", "1.35", "least pull-out torque over rated torque at rated voltage (U/f)")}
@@ -1038,76 +1066,3 @@ class PullOutMargin(Relation):
             fields, expected_text={torque[1][0]: f"≤ {t_po / min_ratio:.4g} N·m"},
             actual_text={torque[1][0]: f"{torque[0]:.4g} N·m"}, deviation=min_ratio / ratio - 1)
 
-
-# --- short-circuit-current ---------------------------------------------------------------------
-@register
-class ShortCircuitCurrent(Relation):
-    """Steady-state short-circuit current ψ/L_d against the peak (or rated) current.
-
-    .. math:: I_{sc} = \\frac{\\psi}{\\sqrt2\\,L_d} \\ \\text{(rms, high speed, R neglected)}
-
-    A three-phase short circuit of a turning PM machine (a converter fault, or a protective
-    short-circuit of the terminals) drives this current. Above the peak current it is a
-    ``warning``: the converter's fault path must carry it, and the stator field opposes the
-    magnets — check the magnets' demagnetisation limit with the manufacturer. With no peak
-    current given it is compared with the rated current as an ``info`` only: ψ/L_d above
-    rated current is normal (I_sc/I_rated = 1/x, x = L_d·I/ψ < 1 in most machines), so a
-    warning there would fire on consistent sheets. Uses ψ at the rated magnet temperature;
-    cold magnets give more.
-
-    Example that fails: ψ = 0.1 Wb, L_d = 0.5 mH: 141 A rms against a 50 A peak current.
-
-    Fix: confirm with the manufacturer that the magnets withstand the short-circuit current,
-    and size the converter's protection for it.
-
-    References: Soong & Miller, IEE Proc. EPA 141(6), 1994 (characteristic current; from
-    memory).
-    """
-
-    rule = "short-circuit-current"
-    title = "short-circuit current vs peak current"
-    equation = "I_sc = ψ/(√2·L_d) ≤ I_peak"
-    fields = ("circuit.ld", "emf.constant", "limits.peak_current", "rated.current")
-    kind = "safety"
-    severity_policy = "warning when ψ/L_d exceeds the peak (or rated) current"
-    source = "Soong & Miller, IEE Proc. EPA 141(6), 1994 (from memory); " + DQ_SOURCE
-    status = "preview"
-    order = 77
-
-    @_guarded
-    def check(self, sheet: Sheet) -> Iterator[Finding]:
-        inputs = model_inputs(sheet, self.rule)
-        if inputs is None:
-            return
-        get = sheet.values.get
-        reference = get("limits.peak_current")
-        name = "limits.peak_current"
-        if reference is None or reference.value <= 0.0:
-            reference, name = get("rated.current"), "rated.current"
-        if reference is None or reference.value <= 0.0:
-            return
-        i_sc = characteristic_current(inputs.machine) / SQRT2
-        margin = inputs.uncertainty + reference.uncertainty
-        if i_sc <= reference.value * (1.0 + margin):
-            return
-        fields = [name, *inputs.fields]
-        label = "rated current" if name == "rated.current" else "peak current"
-        text = (f"Steady-state short-circuit current ψ/L_d = {i_sc:.4g} A rms (magnets at the "
-                f"rated temperature) against the {label} "
-                f"{reference.value:.4g} A. {_join(inputs.notes)}").rstrip()
-        if name == "rated.current":
-            # ψ/L_d above rated current is the normal case (it equals I_rated/x with the
-            # per-unit reactance x < 1): a note asking for the peak current, not a warning
-            yield sheet.finding(
-                self, "info", f"{text} State limits.peak_current to have the converter's "
-                "fault current and the magnets' demagnetisation limit checked against it.",
-                fields)
-            return
-        yield sheet.finding(
-            self, "warning",
-            f"A terminal short circuit at speed drives more current than the "
-            f"{label}: the converter's fault path must carry it "
-            f"and the stator field opposes the magnets (demagnetisation risk; confirm the "
-            f"magnets' limit with the manufacturer). {text} {CAUTION}",
-            fields, expected_text={name: f"≥ {i_sc:.4g} A"},
-            actual={name: reference.value}, deviation=reference.value / i_sc - 1.0)

@@ -38,7 +38,7 @@ class PowerTorqueSpeed(Monomial):
     fields = ("rated.torque", "rated.power", "rated.speed")
     terms = {"rated.torque": 1.0, "rated.power": -1.0, "rated.speed": 1.0}
     reported = "rated.torque"
-    kind = "exact"
+    kind = "identity"
     severity_policy = "error beyond the rounding of the written digits; the usual slips are tried"
     source = "SI Brochure, 9th edition (BIPM 2019): definition of the watt; NIST SP 811 (2008)"
     per_point = True
@@ -60,7 +60,7 @@ class PoleCount(Monomial):
     fields = ("machine.poles", "machine.pole_pairs")
     terms = {"machine.poles": 1.0, "machine.pole_pairs": -1.0}
     reported = "machine.poles"
-    kind = "exact"
+    kind = "identity"
     severity_policy = "error when they disagree"
     source = "definition"
     order = 1
@@ -97,7 +97,7 @@ class SynchronousSpeed(Monomial):
     fields = ("rated.speed", "rated.frequency", "machine.pole_pairs")
     terms = {"rated.speed": 1.0, "rated.frequency": -1.0, "machine.pole_pairs": 1.0}
     reported = "rated.speed"
-    kind = "exact"
+    kind = "identity"
     severity_policy = ("error when f ≠ p·n/60 beyond rounding; error when no integral pole "
                        "count fits")
     source = "Fitzgerald, Kingsley, Umans, Electric Machinery, 6th ed. (2003), ch. 4"

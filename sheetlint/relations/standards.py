@@ -2,7 +2,7 @@
 
 The tables behind them live in :mod:`sheetlint.standards` (data files with their sources).
 The plausibility bands (``rotor-torque-density``, ``specific-losses``, ``overload-ratio``,
-``short-time-rating``) are from memory and preview: they raise at most a warning.
+``short-time-rating``) are from memory and on trial: they raise at most a warning.
 """
 
 from __future__ import annotations
@@ -31,6 +31,7 @@ from sheetlint.standards.thermal import (
     reference_temperature_c,
     resistance_with_constant,
     sizing_bands,
+    small_or_self_cooled_limit,
     temperature_constant,
     thermal_class_limit,
     thermal_table,
@@ -67,6 +68,10 @@ def _governing(rise_class: int | None, thermal_class: int | None) -> tuple[int |
 def _celsius(sheet: Sheet, name: str) -> float | None:
     known = sheet.get(name)
     return None if known is None else known.value - ZERO_CELSIUS_K
+
+
+#: IEC 60034-1 gives machines rated under this output a higher rise limit (from memory)
+SMALL_MACHINE_W = 600.0
 
 
 @register
@@ -113,10 +118,10 @@ class TemperatureRise(Relation):
     kind = "bound"
     severity_policy = ("error when the stated rise exceeds the corrected limit of a quoted "
                        "class, or the rise class exceeds the thermal class; warning where the "
-                       "limit or its correction is from memory or beyond the rules; info when "
+                       "limit or its correction is approximate or beyond the rules; info when "
                        "no limit is known")
     source = TEMPERATURE_RISE_SOURCE
-    status = "stable"
+    status = "established"
     order = 20
     derive_inputs = ("circuit.resistance", "circuit.resistance_hot", "rated.temperature_rise",
                      "machine.ambient", "rated.magnet_temperature")
@@ -141,7 +146,7 @@ class TemperatureRise(Relation):
                     estimate=True,
                     note=(f"assumed: the sheet states no magnet temperature; taken as the "
                           f"IEC 60034-2-1 reference temperature {reference:g} degC of the "
-                          f"{label} {governing} (from memory)"))
+                          f"{label} {governing} (approximate; check against the standard's text)"))
 
     def _hot_resistance(self, sheet: Sheet, governing: int | None,
                         label: str) -> Derivation | None:
@@ -176,7 +181,8 @@ class TemperatureRise(Relation):
             spread = float(sheet.option(self.rule, "reference_temperature_spread_k", 10.0))
             inputs = ("circuit.resistance",)
             where = (f"IEC 60034-2-1 reference temperature {reference:g} degC of the {label} "
-                     f"{governing} (from memory; the sheet states no temperature rise)")
+                     f"{governing}; approximate, check against the standard's text; the "
+                     "sheet states no temperature rise)")
             estimate = resistance.is_estimate
         value = resistance_with_constant(resistance.value, t1, t2, k)
         if not math.isfinite(value):
@@ -213,7 +219,26 @@ class TemperatureRise(Relation):
                 f"no temperature-rise limit is held for {label} {governing}; the stated rise is "
                 "not checked", ("rated.temperature_rise",))
             return
+        higher = small_or_self_cooled_limit(governing)
         finding = self._check_rise(sheet, governing, label, base)
+        if finding is not None and higher is not None:
+            # IEC 60034-1's row for small and fan-less or encapsulated machines (from memory)
+            power = sheet.get("rated.power")
+            group = cooling_group(sheet.attr("machine.cooling"))
+            small = power is not None and power.value < SMALL_MACHINE_W
+            if self._check_rise(sheet, governing, label, higher) is None:
+                if small or group == "natural":
+                    return
+                if group == "unknown":
+                    rise = sheet.value("rated.temperature_rise")
+                    yield sheet.finding(
+                        self, "info", f"stated temperature rise {rise:.4g} K is above the "
+                        f"{base:.4g} K of {label} {governing} but within the "
+                        f"{higher:.4g} K that IEC 60034-1 allows a machine without a fan (IC410) "
+                        "or with encapsulated windings (approximate; check against the "
+                        "standard's text); state machine.cooling",
+                        ("rated.temperature_rise", "machine.cooling"))
+                    return
         if finding is not None:
             yield finding
 
@@ -235,10 +260,11 @@ class TemperatureRise(Relation):
             else "error"
         notes = list(limit.notes)
         if from_memory:
-            notes.append(f"the class {governing} limit is from memory")
+            notes.append(f"the class {governing} limit is approximate; check against the "
+                         "standard's text")
         if within_low_ambient:
             notes.append("IEC 60034-1 allows a higher rise for a coolant below 40 degC only by "
-                         "agreement (from memory)")
+                         "agreement (approximate; check against the standard's text)")
         detail = f" ({'; '.join(notes)})" if notes else ""
         fields = ["rated.temperature_rise"]
         if coolant is not None:
@@ -301,7 +327,7 @@ class EfficiencyClass(Relation):
                        "below the class minimum; warning for the converter-fed approximation "
                        "and IE5; info when out of scope or borderline")
     source = LINE_OPERATED_SOURCE
-    status = "stable"
+    status = "established"
     order = 80
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
@@ -349,7 +375,7 @@ class EfficiencyClass(Relation):
             result = line_operated_minimum(ie_class, poles, power, frequency_hz)
         if result.approximate:
             cap = "warning"
-            notes.append("IE5 taken as 20 % lower losses than IE4 (approximate, from memory)")
+            notes.append("IE5 taken as 20 % lower losses than IE4 (approximate)")
         yield from self._compare(sheet, ie_class, result, cap, notes, poles, frequency_hz,
                                  LINE_OPERATED_SOURCE, "IEC 60034-30-1")
 
@@ -360,7 +386,7 @@ class EfficiencyClass(Relation):
         notes = ["approximation: the IEC TS 60034-30-2 limits are not held, so the "
                  "IEC 60034-30-1 4-pole limit at the same rated power is used"]
         if ie_class == 5:
-            notes.append("IE5 taken as 20 % lower losses than IE4 (approximate, from memory)")
+            notes.append("IE5 taken as 20 % lower losses than IE4 (approximate)")
         yield from self._compare(sheet, ie_class, result, "warning", notes, 4, 50.0,
                                  CONVERTER_FED_SOURCE, "IEC TS 60034-30-2")
 
@@ -392,17 +418,24 @@ class EfficiencyClass(Relation):
             reached = highest_class_reached(eta.value, poles, power, frequency_hz)
             reached_text = (f"it reaches IE{reached}" if reached is not None
                             else "it reaches none of IE2-IE4")
-            yield sheet.finding(
-                self, cap,
-                f"declared efficiency {100 * eta.value:.4g} % is below the IE{ie_class} minimum "
-                f"{100 * minimum:.3g} % at {power / 1e3:.4g} kW ({result.method}); "
-                f"{reached_text}{detail}",
-                fields, expected={"rated.efficiency": minimum},
-                actual={"rated.efficiency": eta.value},
-                deviation=eta.value / minimum - 1.0,
-                cause=(f"class claimed one step too high (IE{reached})"
-                       if reached == ie_class - 1 else None),
-                source=source)
+            message = (f"declared efficiency {100 * eta.value:.4g} % is below the "
+                       f"IE{ie_class} minimum {100 * minimum:.3g} % at {power / 1e3:.4g} kW "
+                       f"({result.method}); {reached_text}{detail}")
+            if reached is not None and reached < ie_class:
+                # the declared efficiency stands; the claim is what to correct
+                yield sheet.finding(
+                    self, cap, message, ("efficiency_class", *fields),
+                    expected_text={"efficiency_class": f"IE{reached}"},
+                    actual_text={"efficiency_class": f"IE{ie_class}"},
+                    deviation=eta.value / minimum - 1.0,
+                    cause=f"efficiency_class: the declared efficiency reaches IE{reached}; the "
+                          f"claim IE{ie_class} is {ie_class - reached} class(es) too high",
+                    source=source)
+            else:
+                yield sheet.finding(
+                    self, cap, message, fields, expected={"rated.efficiency": minimum},
+                    actual={"rated.efficiency": eta.value},
+                    deviation=eta.value / minimum - 1.0, source=source)
         elif shortfall > _EPS:
             yield sheet.finding(
                 self, "info",
@@ -426,8 +459,8 @@ class EfficiencyClass(Relation):
 
 def _band_finding(relation: Relation, sheet: Sheet, quantity: str, value: float,
                   band: tuple[float, float | None], unit: str, fields: tuple[str, ...],
-                  cause: str | None, what: str) -> Finding | None:
-    """A warning when ``value`` lies outside ``band``; None inside it."""
+                  cause: str | None, what: str, severity: str = "warning") -> Finding | None:
+    """A finding (warning by default) when ``value`` lies outside ``band``; None inside it."""
     low, high = band
     if low is not None and value < low:
         edge, side = low, "below"
@@ -440,9 +473,9 @@ def _band_finding(relation: Relation, sheet: Sheet, quantity: str, value: float,
     else:
         band_text = f"{low:g}-{high:g} {unit}" if low else f"<= {high:g} {unit}"
     return sheet.finding(
-        relation, "warning",
-        f"{what} {value:.3g} {unit} is {side} the usual band {band_text} (a band from memory, "
-        "not a limit)", fields, deviation=value / edge - 1.0 if edge else None,
+        relation, severity,  # type: ignore[arg-type]
+        f"{what} {value:.3g} {unit} is {side} the usual band {band_text} (an approximate band of "
+        "common practice, not a limit)", fields, deviation=value / edge - 1.0 if edge else None,
         expected_text={quantity: band_text}, actual_text={quantity: f"{value:.3g} {unit}"},
         cause=cause)
 
@@ -487,9 +520,9 @@ class RotorTorqueDensity(Relation):
     equation = "TRV = T / (π·D²·L/4)"
     fields = ("rated.torque", "machine.rotor_diameter", "machine.stack_length")
     kind = "band"
-    severity_policy = "warning outside the band (bands from memory); never an error"
+    severity_policy = "warning outside the band (approximate bands); never an error"
     source = SIZING_SOURCE
-    status = "preview"
+    status = "trial"
     order = 80
     options = {"band_knm_per_m3": RuleOption(
         "band", "by cooling group (see above)", "usual torque per rotor volume, kN·m/m³")}
@@ -539,9 +572,9 @@ class SpecificLosses(Relation):
     equation = "P_loss / m ≤ bound(cooling)"
     fields = ("rated.losses", "machine.mass")
     kind = "band"
-    severity_policy = "warning above the bound (from memory); never an error"
-    source = "Common practice; rough bounds from memory, not verified"
-    status = "preview"
+    severity_policy = "warning above the bound (approximate bound); never an error"
+    source = "common practice (approximate bounds)"
+    status = "trial"
     order = 80
     options = {"upper_w_per_kg": RuleOption(
         "number", "by cooling group (see above)", "highest usual rated losses per kg of "
@@ -582,17 +615,17 @@ class OverloadRatio(Relation):
 
     What it checks
         ``limits.peak_torque``/``rated.torque`` and ``limits.peak_current``/``rated.current``
-        within 1-6 (common practice, from memory: industrial PM drives about 1.5-3, servo
-        motors about 3-5); options ``torque_band`` and ``current_band``. For a surface-magnet
-        machine (``spm``) the torque ratio cannot exceed the current ratio by more than the
-        inputs' rounding and a margin (option ``margin``, default 5 %): torque is Kt·I and
-        saturation lowers Kt at high current, it never raises it.
+        within the usual band (common practice, from memory: industrial PM drives about
+        1.5-3, servo motors 3-5 and more, since their ratings are referred to standstill);
+        options ``torque_band`` and ``current_band``. Outside the band is an info (a band of
+        practice), more than twice beyond it a warning; a peak *below* the rated value is an
+        error (the peak belongs to another rating or basis). Peak and rated torque per
+        ampere against Kt are checked by ``emf-constant``.
     Why it matters
-        A peak below the rated value, or a torque ratio above the current ratio of an SPM
-        machine, means one of the four values belongs to another rating or another basis
-        (peak current given as amplitude, rated torque as a peak).
+        A peak below the rated value means one of the values belongs to another rating or
+        another basis (peak current given as amplitude, rated torque as a peak).
     Example that fails
-        ``spm``, rated 10 N·m at 5 A, peak 40 N·m at 10 A.
+        rated 10 N·m at 5 A, peak 8 N·m at 10 A (peak torque below rated).
     Fix
         Check which values are peak and which are rms, and which rating they belong to.
     References
@@ -601,20 +634,19 @@ class OverloadRatio(Relation):
 
     rule = "overload-ratio"
     title = "Peak-to-rated ratios within the usual band"
-    equation = "1 ≤ T_peak/T_rated ≤ 6; T_peak/T_rated ≤ I_peak/I_rated (spm)"
+    equation = "X_peak ≥ X_rated; X_peak/X_rated in the usual band"
     fields = ("limits.peak_torque", "rated.torque", "limits.peak_current", "rated.current")
     kind = "band"
-    severity_policy = "warning (bands from memory); never an error"
-    source = "Common practice; bands from memory, not verified"
-    status = "preview"
+    severity_policy = ("error when a peak is below its rated value; info outside the usual band "
+                       "(approximate), warning more than twice beyond it")
+    source = "common practice (approximate bands)"
+    status = "trial"
     order = 80
     options = {
         "torque_band": RuleOption("band", "from the sizing table (see above)",
                                   "usual peak-to-rated torque ratio"),
         "current_band": RuleOption("band", "from the sizing table (see above)",
                                    "usual peak-to-rated current ratio"),
-        "margin": RuleOption("number", "0.05", "how far the torque ratio of an spm machine "
-                             "may exceed its current ratio"),
     }
 
     def check(self, sheet: Sheet) -> Iterator[Finding]:
@@ -635,30 +667,26 @@ class OverloadRatio(Relation):
                 continue
             ratios[name] = ratio
             slack = sheet.get(peak).uncertainty + sheet.get(rated).uncertainty
+            if ratio < 1.0 - slack:
+                yield sheet.finding(
+                    self, "error", f"{peak} is below {rated} (ratio {ratio:.3g}): a short-time "
+                    "peak cannot be less than the continuous rating", (peak, rated),
+                    expected={peak: sheet.value(rated)}, actual={peak: sheet.value(peak)},
+                    deviation=ratio - 1.0, cause="the peak and rated values may be on "
+                    "different bases (peak vs rms) or belong to different ratings")
+                continue
             low, high = _option_band(sheet, self.rule, f"{name}_band", tuple(table[name]))
             band = (low * (1.0 - slack), None if high is None else high * (1.0 + slack))
             if band[0] <= ratio and (band[1] is None or ratio <= band[1]):
                 continue
+            far = (ratio < low / 2) or (high is not None and ratio > 2 * high)
             finding = _band_finding(
                 self, sheet, f"peak_to_rated_{name}", ratio, (low, high), "", (peak, rated),
                 "the peak and rated values may be on different bases (peak vs rms) or belong "
-                "to different ratings", f"peak-to-rated {name} ratio")
+                "to different ratings", f"peak-to-rated {name} ratio",
+                "warning" if far else "info")
             if finding is not None:
                 yield finding
-        if sheet.attr("machine.topology") == "spm" and len(ratios) == 2:
-            slack = sum(sheet.get(f).uncertainty for f in self.fields)
-            margin = float(sheet.option(self.rule, "margin", 0.05))
-            if ratios["torque"] > ratios["current"] * (1.0 + slack + margin):
-                yield sheet.finding(
-                    self, "warning",
-                    f"peak-to-rated torque ratio {ratios['torque']:.3g} exceeds the current "
-                    f"ratio {ratios['current']:.3g}: in a surface-magnet machine torque is Kt·I "
-                    "and saturation only lowers Kt at high current",
-                    self.fields, deviation=ratios["torque"] / ratios["current"] - 1.0,
-                    expected_text={"peak_to_rated_torque": f"<= {ratios['current']:.3g}"},
-                    actual_text={"peak_to_rated_torque": f"{ratios['torque']:.3g}"},
-                    cause="the peak current may be an amplitude (x√2) or the rated torque a "
-                          "value at another point")
 
 
 @register
@@ -689,9 +717,9 @@ class ShortTimeRating(Relation):
     equation = "t_peak < t_continuous when X_peak > X_rated"
     fields = ("limits.peak_torque", "rated.torque", "limits.peak_current", "rated.current")
     kind = "band"
-    severity_policy = "warning (from memory); never an error"
-    source = "IEC 60034-1:2010 duty types (from memory); common practice"
-    status = "preview"
+    severity_policy = "warning (approximate); never an error"
+    source = "IEC 60034-1:2010 duty types; common practice"
+    status = "trial"
     order = 80
     options = {"continuous_after_s": RuleOption(
         "number", "from the sizing table (see above)", "a peak lasting this long, in s, is "

@@ -31,35 +31,35 @@ class FilePart:
     path: str
     text: str  # the file's part of the output ("" when it adds nothing)
     records: int
-    findings: tuple[int, int, int]  # info, warning, error findings not suppressed
-    suppressed: int
+    findings: tuple[int, int, int]  # info, warning, error findings not accepted
+    accepted: int  # findings an ``accepted`` entry of their record covers
     unreadable: bool  # the file, or a record in it, could not be read
-    worst: int  # highest severity rank among findings not suppressed; -1 for none
-    caution: bool = False  # a safety warning was shown (the text report's cautions line)
+    worst: int  # highest severity rank among findings not accepted; -1 for none
     messages: tuple[str, ...] = ()  # read errors, repeated on stderr after the report
     extra: Any = None  # what a report keeps for its tail (SARIF: artifacts, notifications)
+    skipped: bool = False  # a readable file holding no machine record, left out
 
 
-def count_part(result: FileResult, text: str, caution: bool = False,
-               extra: Any = None) -> FilePart:
+def count_part(result: FileResult, text: str, extra: Any = None) -> FilePart:
     """The :class:`FilePart` of ``result`` with ``text``: its counts worked out here."""
     counts = [0, 0, 0]
-    suppressed = 0
+    accepted = 0
     worst = -1
     messages = [result.error] if result.error else []
     for record in result.records:
         if record.error:
             messages.append(record.error)
         for finding in record.findings:
-            if finding.suppressed is not None:
-                suppressed += 1
+            if finding.accepted is not None:
+                accepted += 1
                 continue
             rank = SEVERITIES.index(finding.severity)
             counts[rank] += 1
             if rank > worst:
                 worst = rank
     return FilePart(result.path, text, len(result.records), (counts[0], counts[1], counts[2]),
-                    suppressed, bool(messages), worst, caution, tuple(messages), extra)
+                    accepted, bool(messages), worst, tuple(messages), extra,
+                    bool(result.skipped))
 
 
 @dataclass(slots=True)
@@ -69,27 +69,29 @@ class Tally:
     files: int = 0
     records: int = 0
     findings: list[int] = field(default_factory=lambda: [0, 0, 0])
-    suppressed: int = 0
+    accepted: int = 0
+    skipped: int = 0
     unreadable: bool = False
     worst: int = -1
-    caution: bool = False
 
     def add(self, part: FilePart) -> None:
         self.files += 1
         self.records += part.records
         for rank, count in enumerate(part.findings):
             self.findings[rank] += count
-        self.suppressed += part.suppressed
+        self.accepted += part.accepted
+        self.skipped += part.skipped
         self.unreadable = self.unreadable or part.unreadable
         self.worst = max(self.worst, part.worst)
-        self.caution = self.caution or part.caution
 
     def summary(self) -> dict[str, int]:
         """The ``summary`` object of the JSON output contract."""
         out = {"files": self.files, "records": self.records, "error": self.findings[2],
                "warning": self.findings[1], "info": self.findings[0]}
-        if self.suppressed:
-            out["suppressed"] = self.suppressed
+        if self.skipped:
+            out["skipped"] = self.skipped
+        if self.accepted:
+            out["accepted"] = self.accepted
         return out
 
     def exit_status(self, fail_on: str = "error") -> int:

@@ -2,21 +2,29 @@
 
 Everything is inline: CSS in a ``<style>`` element, plots as inline SVG drawn here, no script,
 no font, no image and no link to the network, so the file opens the same offline and years later.
-Per machine: the findings (suppressed ones marked with their reason), two plots where a
+Per machine: the findings (accepted ones marked with their reason), two plots where a
 picture beats a table, the given values and the derived values with their provenance. Every
 string that comes from the data is escaped with :func:`html.escape`.
 
-The plots draw the sheet's own values; the curves are the simple ones a reader checks by hand:
+The plots draw the sheet's own values, and every limit in them is computed by the same
+function the findings use (the converter's voltage limit of the machine-model checks, the DC
+link of a stopped converter and the speed at which the cold back-EMF reaches it, as in the
+overspeed check), so a crossing in a plot is the crossing a finding reports:
 
-- back-EMF against speed: :math:`E_{LL,rms} = K_e\\,\\omega` for each known magnet temperature,
-  with the rated voltage and the DC-link limit :math:`U_{dc}/\\sqrt{2}` (largest line rms
-  fundamental with space-vector modulation; REFERENCES.md section 8);
-- torque against speed: the dq-model envelope of :func:`sheetlint.physics.dq.torque_speed_envelope`
-  at the rated and the peak current when ψ (or Ke), Ld, Lq and p are known; otherwise the
-  simple envelope (the torque limit up to rated speed, then constant power
-  :math:`T = T_{lim}\\,n_{rated}/n`), with the rated and listed points, the current limit
-  (:math:`K_t I_{peak}`), the speed where the back-EMF reaches the voltage limit, and the
-  maximum speed.
+- back-EMF against speed: E_LL,rms = Ke·ω for each known magnet temperature, with the rated
+  voltage, the converter's voltage limit, the DC link of a stopped converter (drawn at U_dc/√2,
+  where the line rms back-EMF has a peak of U_dc), the speed at which the cold back-EMF reaches
+  it, and the maximum speed;
+- torque against speed: the machine-model envelope at the rated and the peak current when ψ
+  (or Ke), Ld, Lq and p are known; otherwise an estimate (the torque up to rated speed, then
+  constant power), with the rated and listed points, the current limit, the speed where the
+  back-EMF reaches the voltage limit, and the maximum speed; for a servo sheet with a
+  standstill (0 rpm) point, that point, the continuous line from it to the rated point and
+  the peak torque line.
+
+One meaning per colour and per line style in every plot (:data:`ROLES`): solid lines are
+values from the sheet or worked out from it, dashed lines are estimates, dotted lines are
+limits.
 """
 
 from __future__ import annotations
@@ -24,20 +32,34 @@ from __future__ import annotations
 import math
 from collections.abc import Iterable
 from dataclasses import dataclass, field
+from datetime import UTC, datetime
 from html import escape
 from typing import Any
 
 from sheetlint import __version__
 from sheetlint.batch import FileResult, relative
-from sheetlint.cautions import CAUTIONS, SAFETY_RULES
+from sheetlint.cautions import CAUTIONS, FINDING_CAUTION, SAFETY_RULES
 from sheetlint.engine.core import Finding, Known, Sheet
 from sheetlint.engine.run import RecordResult, derived_payload
 from sheetlint.report.json_report import summary
+from sheetlint.report.text import units
 
 RPM = 2.0 * math.pi / 60.0  # rad/s per r/min
 SQRT2 = math.sqrt(2.0)
-#: Okabe-Ito colours (distinguishable with the common colour-vision deficiencies)
-PALETTE = ("#0072B2", "#D55E00", "#009E73", "#CC79A7", "#E69F00", "#56B4E9", "#000000")
+#: one colour per meaning, the same in every plot (Okabe-Ito colours, distinguishable with the
+#: common colour-vision deficiencies)
+ROLES: dict[str, str] = {
+    "machine": "#0072B2",      # the machine at the rated current / Ke as given
+    "hot": "#E69F00",          # magnets at the rated (hot) temperature
+    "cold": "#56B4E9",         # magnets at the lowest ambient (cold)
+    "peak": "#CC79A7",         # the machine at its peak current
+    "rated": "#009E73",        # rated values of the sheet
+    "converter": "#D55E00",    # the converter's voltage limit while running
+    "dc-link": "#000000",      # the DC link of a stopped converter
+    "speed-limit": "#666666",  # maximum speed
+}
+DASH_ESTIMATE = "6 4"
+DOT_LIMIT = "2 3"
 
 
 # --- plot description (plain data) and SVG drawing ------------------------------------------
@@ -46,16 +68,18 @@ class Series:
     label: str
     xs: list[float]
     ys: list[float]
-    dashed: bool = False
+    role: str = "machine"
+    estimate: bool = False  # drawn dashed and labelled as an estimate
 
 
 @dataclass(slots=True)
 class Reference:
-    """A horizontal (``axis="y"``) or vertical (``axis="x"``) limit line."""
+    """A horizontal (``axis="y"``) or vertical (``axis="x"``) limit line, drawn dotted."""
 
     label: str
     value: float
     axis: str = "y"
+    role: str = "converter"
 
 
 @dataclass(slots=True)
@@ -119,10 +143,9 @@ def svg(plot: Plot, width: int = 600, height: int = 350) -> str:
     def py(y: float) -> float:
         return top + plot_h * (1.0 - min(max(y, 0.0), y_max) / y_max)
 
-    legend_items = [(s.label, PALETTE[i % len(PALETTE)], "dash" if s.dashed else "line")
-                    for i, s in enumerate(plot.series)]
-    ref_colors = {id(r): PALETTE[(len(plot.series) + i) % len(PALETTE)]
-                  for i, r in enumerate(plot.references)}
+    legend_items = [(s.label, ROLES[s.role], "dash" if s.estimate else "line")
+                    for s in plot.series]
+    ref_colors = {id(r): ROLES[r.role] for r in plot.references}
     legend_items += [(r.label, ref_colors[id(r)], "ref") for r in plot.references]
     legend_items += [(m.label, "#000000", "marker") for m in plot.markers]
     legend_h = 18 * len(legend_items) + 8
@@ -158,17 +181,19 @@ def svg(plot: Plot, width: int = 600, height: int = 350) -> str:
         if r.axis == "x":
             x = px(r.value)
             out.append(f'<line x1="{x:.1f}" y1="{top}" x2="{x:.1f}" y2="{top + plot_h}" '
-                       f'stroke="{color}" class="ref"><title>{escape(r.label)}</title></line>')
+                       f'stroke="{color}" class="ref" data-role="{r.role}" '
+                       f'data-value="{r.value:.6g}"><title>{escape(r.label)}</title></line>')
         else:
             y = py(r.value)
             out.append(f'<line x1="{left}" y1="{y:.1f}" x2="{left + plot_w}" y2="{y:.1f}" '
-                       f'stroke="{color}" class="ref"><title>{escape(r.label)}</title></line>')
-    for i, s in enumerate(plot.series):
+                       f'stroke="{color}" class="ref" data-role="{r.role}" '
+                       f'data-value="{r.value:.6g}"><title>{escape(r.label)}</title></line>')
+    for s in plot.series:
         points = " ".join(f"{px(x):.1f},{py(y):.1f}" for x, y in zip(s.xs, s.ys, strict=False)
                           if math.isfinite(x) and math.isfinite(y))
-        dash = ' stroke-dasharray="6 4"' if s.dashed else ""
-        out.append(f'<polyline points="{points}" fill="none" '
-                   f'stroke="{PALETTE[i % len(PALETTE)]}" stroke-width="2"{dash}>'
+        dash = f' stroke-dasharray="{DASH_ESTIMATE}"' if s.estimate else ""
+        out.append(f'<polyline points="{points}" fill="none" data-role="{s.role}" '
+                   f'stroke="{ROLES[s.role]}" stroke-width="2"{dash}>'
                    f"<title>{escape(s.label)}</title></polyline>")
     for m in plot.markers:
         if math.isfinite(m.x) and math.isfinite(m.y):
@@ -179,7 +204,8 @@ def svg(plot: Plot, width: int = 600, height: int = 350) -> str:
         if style == "marker":
             out.append(f'<circle cx="{left + 12}" cy="{y + 6}" r="4.5" class="marker"/>')
         else:
-            dash = {"dash": ' stroke-dasharray="6 4"', "ref": ' class="ref"'}.get(style, "")
+            dash = {"dash": f' stroke-dasharray="{DASH_ESTIMATE}"',
+                    "ref": ' class="ref"'}.get(style, "")
             out.append(f'<line x1="{left}" y1="{y + 6}" x2="{left + 24}" y2="{y + 6}" '
                        f'stroke="{color}" stroke-width="2"{dash}/>')
         out.append(f'<text x="{left + 32}" y="{y + 10}" class="legend">{escape(label)}</text>')
@@ -206,23 +232,21 @@ def _ke_temperature(values: dict[str, Known], name: str, k: Known) -> str:
     return f"{(kelvin if kelvin is not None else 293.15) - 273.15:.0f} °C"
 
 
-def voltage_limit(values: dict[str, Known]) -> tuple[float, str] | None:
-    """Largest line rms voltage the converter gives [V] and how it was found."""
-    dc = _value(values, "supply.dc_link_voltage")
-    if dc is not None:
-        return dc / SQRT2, f"DC-link limit U_dc/√2 = {dc / SQRT2:.0f} V"
-    mains = _value(values, "supply.mains_voltage")
-    if mains is not None:
-        u = 3.0 * SQRT2 / math.pi * mains / SQRT2
-        return u, f"voltage limit from the mains (diode bridge, U_dc/√2) = {u:.0f} V"
-    return None
-
-
 def emf_plot(sheet: Sheet) -> Plot | None:
-    """Back-EMF (line rms) against speed for each known Ke, with the voltage limits.
+    """Back-EMF (line rms) against speed for each known Ke, with the limits the findings use.
 
-    .. math:: E_{LL,rms}(n) = K_e\\,\\omega,\\quad \\omega = 2\\pi n/60
+    E_LL,rms(n) = Ke·ω with ω = 2π·n/60. The DC link of a stopped converter is drawn at
+    U_dc/√2: the line rms back-EMF whose peak equals U_dc. U_dc, the cold Ke and the crossing
+    speed come from the functions of the overspeed check; the running voltage limit from the
+    machine-model checks' converter limit.
     """
+    from sheetlint.physics.dq import speed_at_back_emf
+    from sheetlint.relations.machine import (
+        OverspeedEmf,
+        converter_voltage_limit,
+        dc_link_voltage,
+    )
+
     values = sheet.values
     constants = [(name, values[name]) for name in ("emf.constant", "emf.constant_hot",
                                                     "emf.constant_cold")
@@ -232,37 +256,62 @@ def emf_plot(sheet: Sheet) -> Plot | None:
     top_speed = max(_finite([v for v in (_value(values, "limits.max_speed"),
                                          _value(values, "rated.speed")) if v is not None])
                     or [3000.0 * RPM]) * 1.1
-    plot = Plot("Back-EMF against speed", "speed [rpm]", "line-to-line voltage [V rms]")
-    seen: set[float] = set()
+    dc = dc_link_voltage(sheet)
+    _field, cold_ke, _ = OverspeedEmf._cold_ke(sheet)
+    crossing = (speed_at_back_emf(cold_ke, dc[0]) if dc is not None and cold_ke
+                and cold_ke > 0.0 else None)
+    if crossing is not None and math.isfinite(crossing):
+        top_speed = max(top_speed, crossing * 1.1)
+    plot = Plot("Back-EMF against speed", "speed [r/min]", "line-to-line voltage [V rms]")
+    by_value: dict[float, Series] = {}
     for name, k in constants:
-        key = round(k.value, 9)
-        if key in seen:
+        kind, role = {"emf.constant_cold": ("magnets cold, lowest ambient", "cold"),
+                      "emf.constant_hot": ("magnets hot, rated temperature", "hot")}.get(
+                          name, ("as on the sheet", "machine"))
+        same = by_value.get(round(k.value, 9))
+        if same is not None:  # one line, both meanings (the cold role wins: it is the safety one)
+            same.label = same.label[:-1] + f"; {kind})"
+            same.role = "cold" if role == "cold" else same.role
             continue
-        seen.add(key)
-        kind = {"emf.constant_cold": "lowest ambient", "emf.constant_hot": "rated magnet "
-                "temperature"}.get(name, "as given")
+        label = (f"back-EMF, Ke = {k.value * 1000.0 * RPM:.4g} V/krpm at "
+                 f"{_ke_temperature(values, name, k)} ({kind})")
+        series = Series(("estimate: " if k.is_estimate else "") + label,
+                        [0.0, top_speed / RPM], [0.0, k.value * top_speed], role, k.is_estimate)
+        by_value[round(k.value, 9)] = series
+        plot.series.append(series)
+    if cold_ke and cold_ke > 0.0 and not any(s.role == "cold" for s in plot.series):
         plot.series.append(Series(
-            f"back-EMF, Ke = {k.value * 1000.0 * RPM:.4g} V/krpm at "
-            f"{_ke_temperature(values, name, k)} ({kind}{', estimate' if k.is_estimate else ''})",
-            [0.0, top_speed / RPM], [0.0, k.value * top_speed],
-            dashed=name != "emf.constant"))
+            f"back-EMF, Ke = {cold_ke * 1000.0 * RPM:.4g} V/krpm (magnets cold, as the overspeed "
+            "check takes it)", [0.0, top_speed / RPM], [0.0, cold_ke * top_speed], "cold"))
     rated_voltage = _value(values, "rated.voltage")
     if rated_voltage is not None:
-        plot.references.append(Reference(f"rated voltage {rated_voltage:.0f} V", rated_voltage))
-    limit = voltage_limit(values)
-    if limit is not None:
-        plot.references.append(Reference(limit[1], limit[0]))
+        plot.references.append(Reference(f"rated voltage {rated_voltage:.0f} V", rated_voltage,
+                                          role="rated"))
+    limit = converter_voltage_limit(sheet)
+    if limit is not None and limit.from_supply:
+        plot.references.append(Reference(
+            f"converter voltage limit while running {limit.line_rms:.0f} V", limit.line_rms,
+            role="converter"))
+    if dc is not None:
+        plot.references.append(Reference(
+            f"DC link of a stopped converter {dc[0]:.0f} V ({dc[1]}), drawn at U_dc/√2 = "
+            f"{dc[0] / SQRT2:.0f} V", dc[0] / SQRT2, role="dc-link"))
+        if crossing is not None and math.isfinite(crossing):
+            plot.references.append(Reference(
+                f"cold back-EMF reaches the DC link at {crossing / RPM:.0f} r/min",
+                crossing / RPM, "x", role="dc-link"))
     max_speed = _value(values, "limits.max_speed")
     if max_speed is not None:
-        plot.references.append(Reference(f"maximum speed {max_speed / RPM:.0f} rpm",
-                                         max_speed / RPM, "x"))
+        plot.references.append(Reference(f"maximum speed {max_speed / RPM:.0f} r/min",
+                                         max_speed / RPM, "x", role="speed-limit"))
     rated_speed = _value(values, "rated.speed")
     if rated_speed is not None and rated_voltage is not None:
-        plot.markers.append(Marker(f"rated point {rated_speed / RPM:.0f} rpm, "
+        plot.markers.append(Marker(f"rated point {rated_speed / RPM:.0f} r/min, "
                                    f"{rated_voltage:.0f} V", rated_speed / RPM, rated_voltage))
-    plot.note = ("Above the DC-link line the peak back-EMF exceeds the DC link: a converter that "
-                 "stops switching at such a speed lets the machine charge the DC link through "
-                 "its diodes.") if limit is not None else ""
+    plot.note = ("Where the cold back-EMF line crosses the DC-link line, its peak reaches the DC "
+                 "link of a stopped converter: above that speed a converter that stops "
+                 "switching lets the machine charge the DC link through its diodes. See the "
+                 "cautions.") if dc is not None else ""
     return plot
 
 
@@ -300,61 +349,93 @@ def envelope_plot(sheet: Sheet) -> Plot | None:
     peak_torque = _value(values, "limits.peak_torque")
     rated_current = _value(values, "rated.current")
     peak_current = _value(values, "limits.peak_current")
-    plot = Plot("Torque against speed", "speed [rpm]", "torque [N·m]")
+    from sheetlint.relations.machine import converter_voltage_limit
+
+    plot = Plot("Torque against speed", "speed [r/min]", "torque [N·m]")
     machine = _dq_machine(sheet)
-    limit = voltage_limit(values)
-    u_limit = limit[0] if limit else _value(values, "rated.voltage")
+    limit = converter_voltage_limit(sheet)
+    u_limit = limit.line_rms if limit is not None else None
     if machine is not None and u_limit is not None and rated_current is not None:
         from sheetlint.physics.dq import torque_speed_envelope
 
-        for current, name, dashed in ((rated_current, "rated", False),
-                                      (peak_current, "peak", True)):
+        for current, name, role in ((rated_current, "rated", "machine"),
+                                    (peak_current, "peak", "peak")):
             if current is None:
                 continue
             env = torque_speed_envelope(machine, current, u_limit, top_speed, 60)
             plot.series.append(Series(
-                f"dq-model envelope at the {name} current {current:.4g} A, U ≤ {u_limit:.0f} V",
-                list(env["speed_rpm"]), list(env["torque_Nm"]), dashed))
-        plot.note = ("Envelope from the linear dq model (sheetlint.physics.dq): ψ from the hot "
-                     "Ke, Ld, Lq and the hot resistance of the sheet; saturation is ignored.")
+                f"machine-model envelope at the {name} current {current:.4g} A, "
+                f"U ≤ {u_limit:.0f} V", list(env["speed_rpm"]), list(env["torque_Nm"]), role))
+        plot.note = ("Envelope from the linear dq machine model: ψ from the hot Ke, Ld, Lq and "
+                     "the hot resistance of the sheet; saturation is ignored.")
     else:
-        for torque, name, dashed in ((rated_torque, "rated torque", False),
-                                     (peak_torque, "peak torque", True)):
+        for torque, name, role in ((rated_torque, "rated torque", "machine"),
+                                   (peak_torque, "peak torque", "peak")):
             if torque is None:
                 continue
             speeds = [top_speed * j / 40 for j in range(41)]
             if rated_speed < top_speed:
                 speeds = sorted({*speeds, rated_speed})
             torques = [torque if n <= rated_speed else torque * rated_speed / n for n in speeds]
-            plot.series.append(Series(f"simple envelope: {name} {torque:.4g} N·m to rated "
+            plot.series.append(Series(f"estimate: {name} {torque:.4g} N·m to rated "
                                       "speed, then constant power",
-                                      [n / RPM for n in speeds], torques, dashed))
-        plot.note = ("Simple envelope (no dq parameters on the sheet): constant torque up to the "
-                     "rated speed, constant power above it.")
+                                      [n / RPM for n in speeds], torques, role, True))
+        plot.note = ("Estimated envelope (no d/q inductances on the sheet): constant torque up "
+                     "to the rated speed, constant power above it.")
     if peak_torque is not None:
         plot.references.append(Reference(f"peak torque on the sheet {peak_torque:.4g} N·m",
-                                         peak_torque))
+                                         peak_torque, role="peak"))
     kt = _value(values, "torque_constant")
     if kt is not None and peak_current is not None and sheet.attr("machine.topology") == "spm":
         plot.references.append(Reference(f"current limit Kt·I_peak = {kt * peak_current:.4g} N·m"
-                                         f" ({peak_current:.4g} A)", kt * peak_current))
+                                         f" ({peak_current:.4g} A)", kt * peak_current,
+                                         role="peak"))
     ke = _value(values, "emf.constant_hot") or _value(values, "emf.constant")
     if ke is not None and u_limit is not None:
         n0 = u_limit / ke
-        plot.references.append(Reference(f"back-EMF reaches {u_limit:.0f} V at {n0 / RPM:.0f} rpm"
-                                         " (voltage limit)", n0 / RPM, "x"))
+        plot.references.append(Reference(f"back-EMF reaches {u_limit:.0f} V at "
+                                         f"{n0 / RPM:.0f} r/min (converter voltage limit)",
+                                         n0 / RPM, "x", role="converter"))
     if max_speed is not None:
-        plot.references.append(Reference(f"maximum speed {max_speed / RPM:.0f} rpm",
-                                         max_speed / RPM, "x"))
-    plot.markers.append(Marker(f"rated point {rated_speed / RPM:.0f} rpm, {rated_torque:.4g} N·m",
+        plot.references.append(Reference(f"maximum speed {max_speed / RPM:.0f} r/min",
+                                         max_speed / RPM, "x", role="speed-limit"))
+    plot.markers.append(Marker(f"rated point {rated_speed / RPM:.0f} r/min, "
+                               f"{rated_torque:.4g} N·m",
                                rated_speed / RPM, rated_torque))
     count = sheet.attr("points.count") or 0
     for i in range(int(count) if isinstance(count, int) else 0):
         n, t = _value(values, f"points[{i}].speed"), _value(values, f"points[{i}].torque")
         if n is not None and t is not None:
-            plot.markers.append(Marker(f"points[{i}]: {n / RPM:.0f} rpm, {t:.4g} N·m",
+            plot.markers.append(Marker(f"points[{i}]: {n / RPM:.0f} r/min, {t:.4g} N·m",
                                        n / RPM, t))
+    _servo_lines(plot, values, count, rated_speed, rated_torque, peak_torque, ke, u_limit,
+                 top_speed)
     return plot
+
+
+def _servo_lines(plot: Plot, values: dict[str, Known], count: Any, rated_speed: float,
+                 rated_torque: float, peak_torque: float | None, ke: float | None,
+                 u_limit: float | None, top_speed: float) -> None:
+    """Servo sheets: the standstill (0 rpm) point, the continuous line from it to the rated
+    point, and the peak torque line up to the speed where the back-EMF reaches the voltage
+    limit (or the top of the plot)."""
+    for i in range(int(count) if isinstance(count, int) else 0):
+        speed = values.get(f"points[{i}].speed")
+        t0 = _value(values, f"points[{i}].torque")
+        if speed is None or speed.value != 0.0 or t0 is None:
+            continue
+        i0 = _value(values, f"points[{i}].current")
+        plot.markers.append(Marker(f"standstill point points[{i}]: 0 rpm, {t0:.4g} N·m"
+                                   + (f" at {i0:.4g} A" if i0 is not None else ""), 0.0, t0))
+        plot.series.append(Series("continuous line: standstill to rated point",
+                                  [0.0, rated_speed / RPM], [t0, rated_torque], "rated"))
+        if peak_torque is not None:
+            end = u_limit / ke if ke is not None and u_limit is not None else top_speed
+            end = min(end, top_speed)
+            plot.series.append(Series(f"peak torque line {peak_torque:.4g} N·m"
+                                      + (" to the voltage limit" if end < top_speed else ""),
+                                      [0.0, end / RPM], [peak_torque, peak_torque], "peak"))
+        return
 
 
 def plots_for(sheet: Sheet | None) -> tuple[list[Plot], list[str]]:
@@ -395,8 +476,8 @@ th{background:#f0f0f0}
 td.num{white-space:nowrap}
 .sev{font-weight:600;white-space:nowrap}
 .sev-error{color:#b00020}.sev-warning{color:#9a5b00}.sev-info{color:#455a64}
-tr.suppressed td{color:#777}tr.safety td{background:#fff8e1}
-tr.suppressed .sev{text-decoration:line-through}
+tr.accepted td{color:#777}tr.safety td{background:#fff8e1}
+tr.accepted .sev{text-decoration:line-through}
 .tag{font-size:.8em;border:1px solid #999;border-radius:3px;padding:0 .3em;margin-left:.3em}
 .cause,.supp{font-size:.9em;color:#333}
 .plots{display:flex;flex-wrap:wrap;gap:1em}
@@ -409,6 +490,7 @@ svg .ref{stroke-width:1.6;stroke-dasharray:2 3}
 svg .marker{fill:#fff;stroke:#000;stroke-width:2}
 nav ul{columns:2;padding-left:1.2em}
 footer{font-size:.85em;color:#555;margin-top:2em}
+.meta{font-size:.9em;color:#444}
 """
 
 
@@ -431,19 +513,20 @@ def _location_text(name: str, location: dict[str, Any] | None) -> str:
 
 
 def _finding_row(file_name: str, x: Finding) -> str:
-    classes = "suppressed" if x.suppressed is not None else ""
+    classes = "accepted" if x.accepted is not None else ""
     if x.rule in SAFETY_RULES and x.severity != "info":
         classes += " safety"
     severity = escape(x.severity)
-    tag = '<span class="tag">suppressed</span>' if x.suppressed is not None else ""
-    details = [f"<div>{escape(x.message)}</div>"]
+    tag = '<span class="tag">accepted</span>' if x.accepted is not None else ""
+    # the cautions stand at the top and foot of the report, not in every row
+    details = [f"<div>{escape(units(x.message.replace(FINDING_CAUTION, '').strip()))}</div>"]
     if x.cause:
-        details.append(f'<div class="cause">likely cause: {escape(x.cause)}</div>')
-    if x.suppressed is not None:
-        details.append(f'<div class="supp">suppressed in the record: {escape(x.suppressed)}'
+        details.append(f'<div class="cause">likely cause: {escape(units(x.cause))}</div>')
+    if x.accepted is not None:
+        details.append(f'<div class="supp">accepted in the record: {escape(x.accepted)}'
                        "</div>")
-    expected = "<br>".join(f"{escape(k)} {escape(v)}" for k, v in x.expected.items())
-    actual = "<br>".join(f"{escape(k)} {escape(v)}" for k, v in x.actual.items())
+    expected = "<br>".join(f"{escape(k)} {escape(units(v))}" for k, v in x.expected.items())
+    actual = "<br>".join(f"{escape(k)} {escape(units(v))}" for k, v in x.actual.items())
     return (f'<tr class="{classes}"><td class="sev sev-{severity}">{severity}{tag}</td>'
             f"<td><code>{escape(x.rule)}</code></td>"
             f"<td>{escape(_location_text(file_name, x.location))}</td>"
@@ -466,7 +549,7 @@ def _given_rows(sheet: Sheet | None) -> list[str]:
         if k.temperature is not None:
             extras.append(f"at {k.temperature - 273.15:.0f} °C")
         rows.append(f"<tr><td><code>{escape(name)}</code></td>"
-                    f"<td class=num>{escape(k.text or display(name, k.value))}</td>"
+                    f"<td class=num>{escape(units(k.text or display(name, k.value)))}</td>"
                     f"<td>{escape(', '.join(extras))}</td></tr>")
     return rows
 
@@ -529,9 +612,35 @@ def _record_section(f: FileResult, record: RecordResult, anchor: str) -> str:
     return "".join(out)
 
 
-def render(results: list[FileResult], title: str | None = None) -> str:
-    """The whole report as one HTML document (a string)."""
+def _inputs_block(results: list[FileResult]) -> str:
+    """The list of input files, each with what became of it."""
+    items = []
+    for f in results:
+        name = escape(relative(f.path))
+        if f.error:
+            what = '<span class="sev sev-error">could not be read</span>'
+        elif f.skipped:
+            what = f"skipped: {escape(f.skipped)}"
+        else:
+            what = f"{len(f.records)} record{'' if len(f.records) == 1 else 's'}"
+        items.append(f"<li><code>{name}</code>: {what}</li>")
+    return f'<details class="inputs" open><summary>Inputs ({len(results)} file' \
+           f"{'' if len(results) == 1 else 's'})</summary><ul>{''.join(items)}</ul></details>"
+
+
+LINE_KEY = ("In the plots: solid lines are values from the sheet or worked out from it; dashed "
+            "lines are estimates; dotted lines are limits. Colours: blue the machine as on the "
+            "sheet, orange hot magnets, light blue cold magnets, purple peak current, green "
+            "rated values, red the converter's voltage limit while running, black the DC link "
+            "of a stopped converter, grey the maximum speed.")
+
+
+def render(results: list[FileResult], title: str | None = None,
+           generated: datetime | None = None) -> str:
+    """The whole report as one HTML document (a string); ``generated`` is the time written in
+    it (default: now, UTC)."""
     title = title or "sheetlint report"
+    when = (generated or datetime.now(UTC)).strftime("%Y-%m-%d %H:%M UTC")
     counts = summary(results)
     nav: list[str] = []
     body: list[str] = []
@@ -549,7 +658,7 @@ def render(results: list[FileResult], title: str | None = None) -> str:
         for record in f.records:
             number += 1
             anchor = f"r{number}"
-            active = [x for x in record.findings if x.suppressed is None]
+            active = [x for x in record.findings if x.accepted is None]
             worst = ("unreadable" if record.error else
                      next((s for s in ("error", "warning") if any(x.severity == s
                                                                   for x in active)), "ok"))
@@ -562,9 +671,9 @@ def render(results: list[FileResult], title: str | None = None) -> str:
                      f"<span>{counts['records']} record(s)</span>",
                      f'<span class="sev sev-error">{counts["error"]} error(s)</span>',
                      f'<span class="sev sev-warning">{counts["warning"]} warning(s)</span>',
-                     f'<span class="sev sev-info">{counts["info"]} info</span>']
-    if counts.get("suppressed"):
-        summary_items.append(f"<span>{counts['suppressed']} suppressed</span>")
+                     f'<span class="sev sev-info">{counts["info"]} note(s)</span>']
+    if counts.get("accepted"):
+        summary_items.append(f"<span>{counts['accepted']} accepted</span>")
     return "\n".join([
         "<!DOCTYPE html>",
         '<html lang="en"><head><meta charset="utf-8">',
@@ -572,12 +681,16 @@ def render(results: list[FileResult], title: str | None = None) -> str:
         f"<title>{escape(title)}</title>",
         f"<style>{STYLE}</style></head><body><main>",
         f"<h1>{escape(title)}</h1>",
+        f'<p class="meta">Written {escape(when)} by sheetlint {escape(__version__)}.</p>',
         f'<div class="summary">{"".join(summary_items)}</div>',
         _caution_block(),
+        _inputs_block(results),
+        f'<p class="meta">{escape(LINE_KEY)}</p>',
         f"<nav><ul>{''.join(nav)}</ul></nav>" if nav else "",
         *body,
         _caution_block(),
-        f"<footer>Written by sheetlint {escape(__version__)}. Every value comes from the data "
-        "files named above; derived values name the rule and the fields they come from.</footer>",
+        f"<footer>Written {escape(when)} by sheetlint {escape(__version__)}. Every value comes "
+        "from the input files listed above; derived values name the rule and the fields they "
+        "come from; estimates are marked as such.</footer>",
         "</main></body></html>",
     ])

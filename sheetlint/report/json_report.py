@@ -17,6 +17,7 @@ from typing import Any
 
 from sheetlint import __version__
 from sheetlint.batch import FileResult
+from sheetlint.coverage import coverage_of
 from sheetlint.engine.run import derived_payload
 from sheetlint.report import FilePart, Tally, count_part, render_all
 
@@ -34,8 +35,10 @@ def summary(results: list[FileResult]) -> dict[str, int]:
 def file_payload(f: FileResult) -> dict[str, Any]:
     """One entry of ``files`` in the output contract."""
     return {"path": f.path, "error": f.error,
+            **({"skipped": f.skipped} if f.skipped else {}),
             "records": [{"id": r.id, "error": r.error,
                          "findings": [x.to_dict() for x in r.findings],
+                         "coverage": coverage_of(r),
                          "derived": derived_payload(r.derived)} for r in f.records]}
 
 

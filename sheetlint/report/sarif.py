@@ -6,7 +6,7 @@ other rule id that appears in the results. Each finding is a
 result with ``ruleId``, ``level`` (error/warning/note), a message, its location (file URI
 relative to the current directory, ``region.startLine`` when the finding has a line; for a
 PDF a location message and a logical location naming page and cell) and ``properties``
-with fields, expected/actual values, deviation and cause. A suppression written in the
+with fields, expected/actual values, deviation and cause. An acceptance written in the
 record becomes ``suppressions: [{"kind": "inSource", "justification": reason}]``. A file or
 record that cannot be read is a result of rule ``unreadable`` and a tool notification.
 
@@ -17,7 +17,6 @@ Standard incorporating Errata 01, 2023.
 from __future__ import annotations
 
 import hashlib
-import inspect
 import json
 from pathlib import PurePath
 from typing import Any
@@ -49,6 +48,7 @@ def artifact_uri(path: str) -> str:
 def rule_descriptors() -> list[dict[str, Any]]:
     """``reportingDescriptor`` objects for every registered rule, sorted by id."""
     from sheetlint.relations.registry import all_relations
+    from sheetlint.rules_doc import rule_text
 
     grouped: dict[str, list[Any]] = {}
     for relation in all_relations():
@@ -57,12 +57,7 @@ def rule_descriptors() -> list[dict[str, Any]]:
     for rule, relations in sorted(grouped.items()):
         first = relations[0]
         equations = "; ".join(r.equation for r in relations if r.equation)
-        help_parts = []
-        for r in relations:
-            doc = inspect.cleandoc(type(r).__doc__ or "")
-            help_parts.append(f"{r.title}: {r.equation}\n\n{doc}".strip())
-        help_text = "\n\n".join(help_parts)
-        help_text += f"\n\nSeverity: {first.severity_policy}\nSource: {first.source}"
+        help_text = rule_text(rule) or first.title  # what `sheetlint rules RULE` prints
         out.append({
             "id": rule,
             "name": _pascal(rule),
@@ -95,7 +90,7 @@ def _extra_descriptor(rule: str) -> dict[str, Any]:
                                             "checked."},
                 "help": {"text": "Fix the file so that it parses and follows the schema "
                                  "(`sheetlint schema`); the message names the field."},
-                "properties": {"kind": "input", "status": "stable"}}
+                "properties": {"kind": "input", "status": "established"}}
     return {"id": rule, "name": _pascal(rule), "shortDescription": {"text": rule}}
 
 
@@ -209,9 +204,9 @@ class SarifReport:
                         "source": x.source,
                     },
                 })
-                if x.suppressed is not None:
+                if x.accepted is not None:
                     entry["suppressions"] = [{"kind": "inSource", "status": "accepted",
-                                              "justification": x.suppressed}]
+                                              "justification": x.accepted}]
                 texts.append(_encode(entry))
         for record_id, message in problems:
             texts.append(_encode({

@@ -1,6 +1,7 @@
 """The text report as a stream: each file's lines from :func:`sheetlint.report.text.file_lines`
-as the file finishes, then the summary and cautions lines of :func:`~sheetlint.report.text.
-tail_lines`. The layout belongs to :mod:`sheetlint.report.text`; this only writes it."""
+as the file finishes, then the summary line and the one cautions line of
+:func:`~sheetlint.report.text.tail_lines`. The layout belongs to :mod:`sheetlint.report.text`;
+this only writes it."""
 
 from __future__ import annotations
 
@@ -16,16 +17,16 @@ class TextReport:
 
     separator = ""
 
-    def __init__(self, show_info: bool = True, show_derived: bool = False) -> None:
-        self.show_info = show_info
+    def __init__(self, notes: bool = False, show_derived: bool = False) -> None:
+        self.notes = notes
         self.show_derived = show_derived
 
     def head(self) -> str:
         return ""
 
     def part(self, result: FileResult) -> FilePart:
-        lines, caution = file_lines(result, self.show_info, self.show_derived)
-        return count_part(result, "".join(line + "\n" for line in lines), caution)
+        lines = file_lines(result, self.notes, self.show_derived)
+        return count_part(result, "".join(line + "\n" for line in lines))
 
     def tail(self, tally: Tally, parts_extra: list[Any]) -> str:
-        return "".join(line + "\n" for line in tail_lines(tally.summary(), tally.caution))
+        return "".join(line + "\n" for line in tail_lines(tally.summary(), self.notes))

