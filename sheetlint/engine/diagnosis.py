@@ -58,6 +58,30 @@ def _loud(findings: list[Finding]) -> list[Finding]:
 class _Explanation:
     slip: Slip
     removed: frozenset[Key]
+    fields: tuple[str, ...] = ()  # every field the reading corrects (the slip's first)
+
+
+#: fields a sheet writes together, in one unit and on one basis: a slip in one is usually a
+#: slip in all (L_d and L_q both in µH labelled mH, both terminal to terminal)
+FIELD_GROUPS: tuple[tuple[str, ...], ...] = (("circuit.ld", "circuit.lq"),)
+
+
+def _candidates(sheet: Sheet, given: dict[str, Known],
+                fields: dict[str, None]) -> list[tuple[tuple[str, ...], Slip]]:
+    """(fields to correct, reading) pairs to try: each field alone, and each group of fields
+    written together with the same reading for all of them."""
+    out: list[tuple[tuple[str, ...], Slip]] = []
+    for group in FIELD_GROUPS:
+        if any(name in fields for name in group) and all(name in given for name in group):
+            others = [{(round(s.factor, 9), s.text) for s in readings(sheet, name)}
+                      for name in group[1:]]
+            for slip in readings(sheet, group[0]):
+                if all((round(slip.factor, 9), slip.text) in o for o in others):
+                    out.append((group, slip))
+    for name in fields:
+        if name in given:
+            out.extend(((name,), slip) for slip in readings(sheet, name))
+    return out
 
 
 def _given_fields(sheet: Sheet, name: str, out: dict[str, None], depth: int = 0) -> None:
@@ -105,30 +129,27 @@ def explain(sheet: Sheet, given: dict[str, Known], findings: list[Finding],
             _given_fields(sheet, name, fields)
     explanations: list[_Explanation] = []
     budget = MOST_RECHECKS
-    for name in fields:
-        if name not in given:
+    for names, slip in _candidates(sheet, given, fields):
+        if budget <= 0:
+            break
+        budget -= 1
+        values = dict(given)
+        for name in names:
+            values[name] = _corrected(given[name], slip, name)
+        if not all(math.isfinite(values[name].value) for name in names):
             continue
-        for slip in readings(sheet, name):
-            if budget <= 0:
-                break
-            budget -= 1
-            corrected = _corrected(given[name], slip, name)
-            if not math.isfinite(corrected.value):
-                continue
-            values = dict(given)
-            values[name] = corrected
-            try:
-                remaining = _loud(recheck(values))
-            except (ArithmeticError, ValueError):
-                continue
-            after = {_key(f) for f in remaining}
-            if after - original:
-                continue  # the reading breaks something that held
-            if any(name in _givens_of(sheet, f) for f in remaining):
-                continue  # a finding on the same field stays: the reading explains it only in part
-            removed = frozenset(k for k in original - after if k[0] not in NOT_DIAGNOSED)
-            if any(k[0] in EVIDENCE for k in removed):
-                explanations.append(_Explanation(slip, removed))
+        try:
+            remaining = _loud(recheck(values))
+        except (ArithmeticError, ValueError):
+            continue
+        after = {_key(f) for f in remaining}
+        if after - original:
+            continue  # the reading breaks something that held
+        if any(name in _givens_of(sheet, f) for f in remaining for name in names):
+            continue  # a finding on the same field stays: the reading explains it only in part
+        removed = frozenset(k for k in original - after if k[0] not in NOT_DIAGNOSED)
+        if any(k[0] in EVIDENCE for k in removed):
+            explanations.append(_Explanation(slip, removed, names))
     if not explanations:
         return findings
     return _group(sheet, findings, explanations, shown)
@@ -153,7 +174,7 @@ def _group(sheet: Sheet, findings: list[Finding], explanations: list[_Explanatio
         primary = _primary(best.slip.field, [by_key[k] for k in removed if k in by_key])
         if primary is None:
             continue
-        _name_cause(sheet, primary, [e.slip for e in same])
+        _name_cause(sheet, primary, [e.slip for e in same], best.fields)
         consequences = [by_key[k] for k in removed if k in by_key and by_key[k] is not primary]
         primary.consequences = [f"{f.rule}: {f.message}" for f in consequences]
         grouped.update(removed)
@@ -182,9 +203,14 @@ def _primary(field: str, candidates: list[Finding]) -> Finding | None:
     return candidates[0]
 
 
-def _name_cause(sheet: Sheet, primary: Finding, slips: list[Slip]) -> None:
+def _name_cause(sheet: Sheet, primary: Finding, slips: list[Slip],
+                corrected: tuple[str, ...] = ()) -> None:
     first = slips[0]
-    primary.cause = "; or ".join(dict.fromkeys(s.cause() for s in slips))
+    causes = [s.cause() for s in slips]
+    if len(corrected) > 1:  # one reading of fields written together
+        causes = [c.replace(f"{first.field}:", " and ".join(corrected) + ":", 1)
+                  if c.startswith(first.field) else c for c in causes]
+    primary.cause = "; or ".join(dict.fromkeys(causes))
     known = sheet.get(first.field)
     fields = [first.field, *(f for f in primary.fields if f != first.field)]
     primary.fields = tuple(fields)
