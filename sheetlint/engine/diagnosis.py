@@ -38,7 +38,10 @@ NOT_DIAGNOSED = frozenset({"value-range", "unknown-field", "duplicate-key", "sta
 #: consequences of an explanation)
 EVIDENCE = frozenset({"power-torque-speed", "synchronous-speed", "pole-count", "electrical-power",
                       "loss-balance", "emf-constant", "voltage-margin", "dq-operating-point",
-                      "voltage-limit", "resistance-drop", "servo-constants"})
+                      "resistance-drop", "servo-constants"})
+#: safety findings stay on their own even when a slip would explain them: if the reading is
+#: wrong, the hazard is real (DESIGN.md, Judgement 4: safety checks on the unsafe end)
+SAFETY = frozenset({"overspeed-emf", "short-circuit-current"})
 #: at most this many re-checks per record (a record with many faults gets the first ones)
 MOST_RECHECKS = 80
 
@@ -175,9 +178,14 @@ def _group(sheet: Sheet, findings: list[Finding], explanations: list[_Explanatio
         if primary is None:
             continue
         _name_cause(sheet, primary, [e.slip for e in same], best.fields)
-        consequences = [by_key[k] for k in removed if k in by_key and by_key[k] is not primary]
+        consequences = [by_key[k] for k in removed if k in by_key and by_key[k] is not primary
+                        and k[0] not in SAFETY]
         primary.consequences = [f"{f.rule}: {f.message}" for f in consequences]
-        grouped.update(removed)
+        for key in removed:
+            if key[0] in SAFETY and key in by_key and by_key[key] is not primary:
+                by_key[key].cause = (f"{primary.cause} (if so, this warning goes too; until the "
+                                     "sheet is corrected it stands)")
+        grouped.update(k for k in removed if k[0] not in SAFETY or by_key.get(k) is primary)
         out_primary[_key(primary)] = primary
     kept = []
     for f in findings:
@@ -198,8 +206,10 @@ def _primary(field: str, candidates: list[Finding]) -> Finding | None:
         relation = relation_for(finding.rule)
         return relation.order if relation is not None else 100
 
-    # a finding naming the field, the loudest, of the most basic relation (identities first)
-    candidates.sort(key=lambda f: (field not in f.fields, rank[f.severity], order(f), f.rule))
+    # a finding naming the field, the loudest, of the most basic relation (identities first);
+    # a safety finding speaks for a slip only when nothing else does
+    candidates.sort(key=lambda f: (f.rule in SAFETY, field not in f.fields, rank[f.severity],
+                                   order(f), f.rule))
     return candidates[0]
 
 
