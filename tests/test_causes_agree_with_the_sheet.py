@@ -77,7 +77,7 @@ def _problems(data: dict) -> list[str]:
 @pytest.mark.parametrize("path", sorted(FIXTURES.glob("**/*.yaml")), ids=lambda p: p.name)
 def test_causes_on_the_demo_data_agree_with_the_sheet(path: Path):
     document = yaml.safe_load(path.read_text(encoding="utf-8"))
-    if not isinstance(document, dict) or "id" not in document and "records" not in document:
+    if not isinstance(document, dict) or ("id" not in document and "records" not in document):
         pytest.skip("not a machine record")
     for data in document.get("records", [document]):
         assert _problems(data) == []
