@@ -1,8 +1,9 @@
-"""Start-up: a one-file check imports only what it needs and fits the budget of DESIGN.md.
+"""Start-up: a one-file check imports only what it needs.
 
-DESIGN.md "Budgets": one file through the CLI in under 0.6 s wall, cold start included.
-bench/bench_startup.py prints the figures; the wall-time check here takes the best of three
-runs so that a busy machine does not fail it.
+DESIGN.md "Performance budgets": one file through the CLI in under 0.3 s, cold start included.
+Tests never assert timings (a busy machine would fail them): bench/bench_startup.py prints the
+figures; what is tested here is the structure that keeps start-up short — no heavy module is
+imported for a JSON/YAML check.
 """
 
 from __future__ import annotations
@@ -10,10 +11,7 @@ from __future__ import annotations
 import json
 import subprocess
 import sys
-import time
 from pathlib import Path
-
-import pytest
 
 FIXTURES = Path(__file__).resolve().parent.parent / "fixtures"
 FIXTURE = FIXTURES / "consistent-spm-5k5-dosing-pump.yaml"
@@ -51,15 +49,3 @@ def test_unreadable_file_check_imports_no_heavy_module(tmp_path):
     assert probe["status"] == 2
     loaded = [m for m in probe["modules"] if m in HEAVY or m.split(".")[0] in HEAVY]
     assert loaded == []
-
-
-@pytest.mark.skipif(not FIXTURE.exists(), reason="demo fixture missing")
-def test_one_file_check_within_the_start_up_budget():
-    best = float("inf")
-    for _ in range(3):
-        start = time.perf_counter()
-        done = subprocess.run([sys.executable, "-m", "sheetlint", "check", str(FIXTURE)],
-                              capture_output=True, text=True, timeout=60)
-        best = min(best, time.perf_counter() - start)
-        assert done.returncode in (0, 1), done.stderr
-    assert best < 0.6, f"best of 3 cold one-file checks took {best:.3f} s (budget 0.6 s)"

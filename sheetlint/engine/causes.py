@@ -15,6 +15,7 @@ the record with the reading applied.
 
 from __future__ import annotations
 
+import itertools
 import math
 from dataclasses import dataclass
 
@@ -204,11 +205,15 @@ def _swapped_digit_readings(path: str, known: Known) -> list[Slip]:
         return []
     out = []
     seen = set()
-    for i in range(len(text) - 1):
-        a, b = text[i], text[i + 1]
-        if not (a.isdigit() and b.isdigit()) or a == b:
+    positions = [i for i, c in enumerate(text) if c.isdigit()]
+    # neighbouring digits, also across the decimal point (96.3 typed as 93.6)
+    for i, j in itertools.pairwise(positions):
+        a, b = text[i], text[j]
+        if a == b or j - i > 2:
             continue
-        swapped = text[:i] + b + a + text[i + 2:]
+        chars = list(text)
+        chars[i], chars[j] = b, a
+        swapped = "".join(chars)
         try:
             ratio = float(text) / float(swapped)
         except (ValueError, ZeroDivisionError):
@@ -216,7 +221,7 @@ def _swapped_digit_readings(path: str, known: Known) -> list[Slip]:
         if ratio > 0 and swapped not in seen:
             seen.add(swapped)
             out.append(Slip(path, ratio, f"two digits are swapped: {swapped}, not {text}",
-                               rank=2))
+                            rank=2))
     return out
 
 

@@ -38,7 +38,10 @@ NOT_DIAGNOSED = frozenset({"value-range", "unknown-field", "duplicate-key", "sta
 #: consequences of an explanation)
 EVIDENCE = frozenset({"power-torque-speed", "synchronous-speed", "pole-count", "electrical-power",
                       "loss-balance", "emf-constant", "voltage-margin", "dq-operating-point",
-                      "voltage-limit", "resistance-drop", "servo-constants"})
+                      "resistance-drop", "servo-constants"})
+#: safety findings stay on their own even when a slip would explain them: if the reading is
+#: wrong, the hazard is real (DESIGN.md, Judgement 4: safety checks on the unsafe end)
+SAFETY = frozenset({"overspeed-emf", "short-circuit-current"})
 #: at most this many re-checks per record (a record with many faults gets the first ones)
 MOST_RECHECKS = 80
 
@@ -58,6 +61,30 @@ def _loud(findings: list[Finding]) -> list[Finding]:
 class _Explanation:
     slip: Slip
     removed: frozenset[Key]
+    fields: tuple[str, ...] = ()  # every field the reading corrects (the slip's first)
+
+
+#: fields a sheet writes together, in one unit and on one basis: a slip in one is usually a
+#: slip in all (L_d and L_q both in µH labelled mH, both terminal to terminal)
+FIELD_GROUPS: tuple[tuple[str, ...], ...] = (("circuit.ld", "circuit.lq"),)
+
+
+def _candidates(sheet: Sheet, given: dict[str, Known],
+                fields: dict[str, None]) -> list[tuple[tuple[str, ...], Slip]]:
+    """(fields to correct, reading) pairs to try: each field alone, and each group of fields
+    written together with the same reading for all of them."""
+    out: list[tuple[tuple[str, ...], Slip]] = []
+    for group in FIELD_GROUPS:
+        if any(name in fields for name in group) and all(name in given for name in group):
+            others = [{(round(s.factor, 9), s.text) for s in readings(sheet, name)}
+                      for name in group[1:]]
+            for slip in readings(sheet, group[0]):
+                if all((round(slip.factor, 9), slip.text) in o for o in others):
+                    out.append((group, slip))
+    for name in fields:
+        if name in given:
+            out.extend(((name,), slip) for slip in readings(sheet, name))
+    return out
 
 
 def _given_fields(sheet: Sheet, name: str, out: dict[str, None], depth: int = 0) -> None:
@@ -105,30 +132,27 @@ def explain(sheet: Sheet, given: dict[str, Known], findings: list[Finding],
             _given_fields(sheet, name, fields)
     explanations: list[_Explanation] = []
     budget = MOST_RECHECKS
-    for name in fields:
-        if name not in given:
+    for names, slip in _candidates(sheet, given, fields):
+        if budget <= 0:
+            break
+        budget -= 1
+        values = dict(given)
+        for name in names:
+            values[name] = _corrected(given[name], slip, name)
+        if not all(math.isfinite(values[name].value) for name in names):
             continue
-        for slip in readings(sheet, name):
-            if budget <= 0:
-                break
-            budget -= 1
-            corrected = _corrected(given[name], slip, name)
-            if not math.isfinite(corrected.value):
-                continue
-            values = dict(given)
-            values[name] = corrected
-            try:
-                remaining = _loud(recheck(values))
-            except (ArithmeticError, ValueError):
-                continue
-            after = {_key(f) for f in remaining}
-            if after - original:
-                continue  # the reading breaks something that held
-            if any(name in _givens_of(sheet, f) for f in remaining):
-                continue  # a finding on the same field stays: the reading explains it only in part
-            removed = frozenset(k for k in original - after if k[0] not in NOT_DIAGNOSED)
-            if any(k[0] in EVIDENCE for k in removed):
-                explanations.append(_Explanation(slip, removed))
+        try:
+            remaining = _loud(recheck(values))
+        except (ArithmeticError, ValueError):
+            continue
+        after = {_key(f) for f in remaining}
+        if after - original:
+            continue  # the reading breaks something that held
+        if any(name in _givens_of(sheet, f) for f in remaining for name in names):
+            continue  # a finding on the same field stays: the reading explains it only in part
+        removed = frozenset(k for k in original - after if k[0] not in NOT_DIAGNOSED)
+        if any(k[0] in EVIDENCE for k in removed):
+            explanations.append(_Explanation(slip, removed, names))
     if not explanations:
         return findings
     return _group(sheet, findings, explanations, shown)
@@ -156,10 +180,14 @@ def _group(sheet: Sheet, findings: list[Finding], explanations: list[_Explanatio
         primary = _primary(best.slip.field, covered)
         if primary is None:
             continue
-        _name_cause(sheet, primary, [e.slip for e in same])
-        consequences = [f for f in covered if f is not primary]
+        _name_cause(sheet, primary, [e.slip for e in same], best.fields)
+        consequences = [f for f in covered if f is not primary and f.rule not in SAFETY]
         primary.consequences = [f"{f.rule}: {f.message}" for f in consequences]
-        grouped.update(removed)
+        for f in covered:
+            if f.rule in SAFETY and f is not primary:
+                f.cause = (f"{primary.cause} (if so, this warning goes too; until the "
+                           "sheet is corrected it stands)")
+        grouped.update(k for k in removed if k[0] not in SAFETY or by_key.get(k) is primary)
         out_primary[_key(primary)] = primary
     kept = []
     for f in findings:
@@ -180,14 +208,21 @@ def _primary(field: str, candidates: list[Finding]) -> Finding | None:
         relation = relation_for(finding.rule)
         return relation.order if relation is not None else 100
 
-    # a finding naming the field, the loudest, of the most basic relation (identities first)
-    candidates.sort(key=lambda f: (field not in f.fields, rank[f.severity], order(f), f.rule))
+    # a finding naming the field, the loudest, of the most basic relation (identities first);
+    # a safety finding speaks for a slip only when nothing else does
+    candidates.sort(key=lambda f: (f.rule in SAFETY, field not in f.fields, rank[f.severity],
+                                   order(f), f.rule))
     return candidates[0]
 
 
-def _name_cause(sheet: Sheet, primary: Finding, slips: list[Slip]) -> None:
+def _name_cause(sheet: Sheet, primary: Finding, slips: list[Slip],
+                corrected: tuple[str, ...] = ()) -> None:
     first = slips[0]
-    primary.cause = "; or ".join(dict.fromkeys(s.cause() for s in slips))
+    causes = [s.cause() for s in slips]
+    if len(corrected) > 1:  # one reading of fields written together
+        causes = [c.replace(f"{first.field}:", " and ".join(corrected) + ":", 1)
+                  if c.startswith(first.field) else c for c in causes]
+    primary.cause = "; or ".join(dict.fromkeys(causes))
     known = sheet.get(first.field)
     fields = [first.field, *(f for f in primary.fields if f != first.field)]
     primary.fields = tuple(fields)

@@ -152,9 +152,12 @@ class LossBalance(Relation):
                          + eta.uncertainty / (1.0 - eta.value))
             deviation = loss.value / expected - 1.0
             if abs(deviation) > tolerance:
+                # DESIGN.md, Judgement 4: beyond twice the allowance an error, within it a
+                # warning (a rounding slip)
+                severity = "error" if abs(deviation) > 2 * tolerance else "warning"
                 yield sheet.finding(
-                    self, "error", f"stated losses are {deviation:+.1%} off P/η − P "
-                    f"(tolerance ±{tolerance:.1%})",
+                    self, severity, f"stated losses are {deviation:+.1%} off P/η − P; "  # type: ignore[arg-type]
+                    f"allowed ±{tolerance:.1%} (the written digits)",
                     ("rated.losses", "rated.power", "rated.efficiency"),
                     expected={"rated.losses": expected}, actual={"rated.losses": loss.value},
                     deviation=deviation)
