@@ -374,3 +374,17 @@ def test_the_report_does_not_depend_on_string_hashing(tmp_path):
         outputs.append(done.stdout)
     assert '"consequences": ["' in outputs[0]
     assert outputs[0] == outputs[1]
+
+
+def test_an_info_the_severity_table_lifts_keeps_its_line():
+    # the default text output hides infos and so skips their lines; a rule the settings'
+    # severity table lifts to a warning is shown, so its line is looked up
+    from sheetlint.engine.core import Settings
+
+    lifted = Settings(locate_info=False, severity={"field-weakening-speed": "warning"})
+    result = check_file(str(FIXTURES / "planted-hp-as-kw.yaml"), lifted)
+    findings = [x for r in result.records for x in r.findings]
+    shown = [x for x in findings if x.rule == "field-weakening-speed"]
+    assert shown and shown[0].severity == "warning"
+    assert shown[0].location is not None and "line" in shown[0].location
+    assert all(x.location is None for x in findings if x.severity == "info")
