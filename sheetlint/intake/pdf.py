@@ -50,6 +50,10 @@ class PdfError(Exception):
     """A PDF that cannot be read; the message names the file and what is wrong."""
 
 
+class PdfNoText(PdfError):
+    """A PDF without a text layer (scanned): nothing to read without OCR."""
+
+
 @dataclass
 class PdfRecord:
     """One machine read from a PDF: the raw record and where each field came from."""
@@ -289,11 +293,36 @@ def normalise_number(text: str, decimal_comma: bool | None) -> str | None:
     return sign + text.replace(mark, ".")
 
 
+FOOTNOTE_MARK = re.compile(r"(?:(?<=[\d%)\s])[\u00b9\u00b2\u00b3\u2070-\u2079]+|\s*[*†‡]+|"
+                           r"\s+\(\d\)|\s+\[\d\]|\s+[a-d1-9]\))$")
+UNIT_FIRST = re.compile(r"^(\S+(?:\s\S+)?)\s+([-+−]?\d.*)$")
+
+
+def strip_footnote(text: str) -> str:
+    """``'95.1¹'``, ``'95.1 *'``, ``'95.1 1)'`` -> ``'95.1'`` (a footnote mark on a value)."""
+    text = text.strip()
+    for _ in range(2):
+        stripped = FOOTNOTE_MARK.sub("", text).rstrip()
+        if stripped == text or not stripped:
+            break
+        text = stripped
+    return text
+
+
 def parse_quantity(text: str, decimal_comma: bool | None) -> Quantity | None:
-    """Split a cell like ``'1 500 min-1'`` into number and unit; None if it starts with none."""
+    """Split a cell like ``'1 500 min-1'`` into number and unit; None if it starts with none.
+
+    A unit written before the number (``'kW 75'``) is read as well.
+    """
     found = NUMBER_START.match(text.strip())
     if not found:
-        return None
+        first = UNIT_FIRST.match(text.strip())
+        if first is None or vocabulary().unit(first.group(1)) is None:
+            return None
+        inner = parse_quantity(first.group(2), decimal_comma)
+        if inner is None or inner.unit or inner.rest:
+            return None
+        return Quantity(inner.number, vocabulary().unit(first.group(1)), "")
     raw = found.group(1).rstrip(" \u2009\u202f\u00a0'’.,")
     rest = text.strip()[found.start(1) + len(raw):].strip()
     number = normalise_number(raw, decimal_comma)
@@ -320,6 +349,42 @@ def page_decimal_comma(lines: list[Line]) -> bool | None:
 
 def _number_value(number: str) -> int | float:
     return float(number) if "." in number else int(number)
+
+
+def cell_value(vocab: Vocabulary, match: LabelMatch, value_text: str, unit_text: str | None,
+               column_unit: str | None, decimal_comma: bool | None
+               ) -> tuple[Any, dict[str, str]] | None:
+    """The raw record value for ``match`` from a value cell, or None if it is not one.
+
+    ``unit_text`` is a unit cell beside the value, ``column_unit`` the unit of the column or
+    row header. Returns the value and extra fields implied by the label
+    (``emf.magnet_temperature`` from "Ke at 20 °C").
+    """
+    path = match.path
+    value_text = strip_footnote(value_text)
+    if path in ATTRIBUTE_FIELDS:
+        text = " ".join([value_text, unit_text or ""]).strip()
+        return (vocab.attribute(path, text) if path not in ("id", "maker") else text), {}
+    spec = FIELDS.get(path)
+    quantity = parse_quantity(value_text, decimal_comma)
+    if quantity is None or spec is None:
+        return None
+    if spec.kind == "count":
+        if quantity.rest:
+            return None
+        return _number_value(quantity.number), {}
+    unit = quantity.unit or (quantity.rest or None)
+    if unit is None and unit_text:
+        unit = vocab.unit(unit_text) or unit_text.strip()
+    unit = unit or match.unit or column_unit
+    qualifiers, extra = _Reader.qualifiers_for(path, spec.kind, match.qualifiers)
+    if qualifiers:
+        value: Any = {"value": _number_value(quantity.number)}
+        if unit:
+            value["unit"] = unit
+        value.update(qualifiers)
+        return value, extra
+    return (f"{quantity.number} {unit}" if unit else quantity.number), extra
 
 
 # --------------------------------------------------------------------------- records
@@ -391,34 +456,9 @@ class _Reader:
 
     def value_for(self, match: LabelMatch, value_text: str, unit_text: str | None,
                   column_unit: str | None = None) -> tuple[Any, dict[str, str]] | None:
-        """The raw record value for ``match`` from a value cell, or None if it is not one.
-
-        Returns the value and extra fields implied by the label (emf.magnet_temperature).
-        """
-        path = match.path
-        if path in ATTRIBUTE_FIELDS:
-            text = " ".join([value_text, unit_text or ""]).strip()
-            return (self.vocab.attribute(path, text) if path not in ("id", "maker") else text), {}
-        spec = FIELDS.get(path)
-        quantity = parse_quantity(value_text, self.decimal_comma)
-        if quantity is None or spec is None:
-            return None
-        if spec.kind == "count":
-            if quantity.rest:
-                return None
-            return _number_value(quantity.number), {}
-        unit = quantity.unit or (quantity.rest or None)
-        if unit is None and unit_text:
-            unit = self.vocab.unit(unit_text) or unit_text.strip()
-        unit = unit or match.unit or column_unit
-        qualifiers, extra = self.qualifiers_for(path, spec.kind, match.qualifiers)
-        if qualifiers:
-            value: Any = {"value": _number_value(quantity.number)}
-            if unit:
-                value["unit"] = unit
-            value.update(qualifiers)
-            return value, extra
-        return (f"{quantity.number} {unit}" if unit else quantity.number), extra
+        """The raw record value for ``match`` from a value cell (see :func:`cell_value`)."""
+        return cell_value(self.vocab, match, value_text, unit_text, column_unit,
+                          self.decimal_comma)
 
     @staticmethod
     def qualifiers_for(path: str, kind: str, stated: dict[str, str]
@@ -753,10 +793,61 @@ def _describe(path: str, exc: BaseException) -> PdfError:
     return _fail(path, f"cannot be read as a PDF ({kind}: {exc})")
 
 
+def _plain_number(text: str) -> bool:
+    quantity = parse_quantity(strip_footnote(text), None)
+    return quantity is not None and not quantity.rest
+
+
+#: a vertical gap between two lines wider than this many line heights separates blocks
+BLOCK_GAP_LINES = 1.2
+
+
+def page_grid(lines: list[Line]) -> tuple[list[list[str]], list[str]]:
+    """The lines of a page as grid rows: blocks of lines set apart by an empty row, each
+    block's cells placed in the columns its rows share. Returns rows and the row names
+    (first cell of each row) for locations."""
+    from sheetlint.intake.pdf_layout import find_columns
+
+    rows: list[list[str]] = []
+    blocks: list[list[Line]] = []
+    for line in lines:
+        if blocks and line.top - blocks[-1][-1].bottom <= BLOCK_GAP_LINES * max(
+                blocks[-1][-1].height, line.height, 1.0):
+            blocks[-1].append(line)
+        else:
+            blocks.append([line])
+    for block in blocks:
+        if rows:
+            rows.append([])
+        multi = [line for line in block if len(line.cells) >= 2]
+        numeric = [line for line in multi
+                   if sum(1 for cell in line.cells if _plain_number(cell.text)) >= 2]
+        basis = numeric if len(numeric) >= 2 else multi
+        columns = find_columns(basis) if basis else []
+        span = (columns[-1].x1 - columns[0].x0) if columns else 0.0
+        for line in block:
+            if not columns or (len(line.cells) == 1 and (
+                    line.cells[0].x1 - line.cells[0].x0 > span / 3
+                    or line.cells[0].x0 <= columns[0].x1)):
+                rows.append([line.cells[0].text] if len(line.cells) == 1 else
+                            [cell.text for cell in line.cells])
+                continue
+            row: list[str] = [""] * len(columns)
+            for cell in line.cells:
+                for piece in split_at_gutters(cell, columns):
+                    index = best_column(piece, columns)
+                    row[index] = f"{row[index]} {piece.text}".strip()
+            rows.append(row)
+    return rows, [next((t for t in row if t), "") for row in rows]
+
+
 def _extract(path: str, max_pages: int, time_limit: float, started: float) -> PdfExtraction:
     import pdfplumber
 
-    reader = _Reader(path)
+    from sheetlint.intake.spreadsheet_grid import GridReader
+
+    reader = GridReader(Path(path).stem)
+    rows_reader = _Reader(path)
     with pdfplumber.open(path) as pdf:
         count = _page_count(pdf)
         if count is not None and count > max_pages:
@@ -783,15 +874,42 @@ def _extract(path: str, max_pages: int, time_limit: float, started: float) -> Pd
                 continue
             text_pages += 1
             lines = group_lines(words, vertical_rules(page))
-            reader.read_page(number, lines)
+            rows, names = page_grid(lines)
+
+            def locate(row: int, column: int, rows: list[list[str]] = rows,
+                       names: list[str] = names, number: int = number) -> dict[str, Any]:
+                texts = [t for t in rows[row] if t]
+                if len(texts) <= 4:
+                    return {"page": number, "cell": " | ".join(texts)}
+                text = rows[row][column] if column < len(rows[row]) else ""
+                first = names[row]
+                return {"page": number,
+                        "cell": text if not first or first == text else f"{first} | {text}"}
+
+            decimal_comma = page_decimal_comma(lines)
+            reader.read_grid(rows, locate, {"page": number}, decimal_comma)
+            rows_reader.read_page(number, lines)
             page.close()
         if text_pages == 0:
-            raise _fail(path, f"has no text layer on any of its {len(pages)} pages (image "
-                              "only; OCR is not supported)")
-        records = reader.finish()
-        if not records:
-            reader.notes.append("no machine data found")
-        return PdfExtraction(path, records, reader.unmapped, reader.notes, len(pages))
+            raise PdfNoText(f"{path}: has no text layer on any of its {len(pages)} pages "
+                            "(image only; OCR is not supported)")
+        found = [PdfRecord(r.data, r.locations) for r in reader.finish(Path(path).stem)]
+        page_notes = [note for note in reader.notes if note.startswith("page ")]
+        notes, unmapped = reader.notes, reader.unmapped
+        by_rows = rows_reader.finish()
+        if _fields_read(by_rows) > _fields_read(found):
+            # the line reader reads more of this document: prose-heavy single sheets
+            found, unmapped = by_rows, rows_reader.unmapped
+            notes = page_notes + [n for n in rows_reader.notes if n not in page_notes]
+        if not found:
+            notes.append("no machine data found")
+        return PdfExtraction(path, found, unmapped, notes, len(pages))
+
+
+def _fields_read(records: list[PdfRecord]) -> tuple[int, int, int]:
+    """Records whose model name is on the page, fewer unnamed records, fields located."""
+    named = sum(1 for record in records if "id" in record.locations)
+    return (named, named - len(records), sum(len(record.locations) for record in records))
 
 
 def dump_records(extraction: PdfExtraction, fmt: str) -> str:
