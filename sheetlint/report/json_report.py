@@ -31,6 +31,7 @@ def payload(results: list[FileResult]) -> dict[str, Any]:
         "version": __version__,
         "files": [
             {"path": f.path, "error": f.error,
+             **({"skipped": f.skipped} if getattr(f, "skipped", None) else {}),
              "records": [{"id": r.id, "error": r.error,
                           "findings": [x.to_dict() for x in r.findings],
                           "derived": derived_payload(r.derived)} for r in f.records]}

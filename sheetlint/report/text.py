@@ -20,6 +20,9 @@ def render(results: list[FileResult], show_info: bool = True, show_derived: bool
         if f.error:
             lines.append(f"{name}: cannot read: {f.error}")
             continue
+        if getattr(f, "skipped", None):
+            lines.append(f"{name}: skipped: {f.skipped}")
+            continue
         for r in f.records:
             if r.error:
                 lines.append(f"{name}: cannot read record: {r.error}")
