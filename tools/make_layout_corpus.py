@@ -12,7 +12,10 @@ Variation, so that a score on the corpus says something about documents not seen
 and order, English and German, decimal comma and point, thousands separators, ruled and
 unruled tables, footnote marks. Makers and model designations are invented.
 
-    python tools/make_layout_corpus.py OUTPUT_DIR [--booklet-pages N]
+    python tools/make_layout_corpus.py OUTPUT_DIR [--booklet-pages N] [--seed N]
+
+``--seed`` draws another corpus with more variation (field order, unit brackets, thousands
+separators, fonts); without it the corpus is the fixed one the tests use.
 
 writes ``<layout>.pdf``, ``<layout>.csv``, ``<layout>.xlsx`` and ``<layout>.answer.json``.
 """
@@ -127,10 +130,11 @@ def number_text(value: float, digits: int, *, comma: bool = False, grouping: str
 
 LABELS_EN = {
     "id": ["Type", "Model", "Type designation"],
-    "rated.power": ["Rated power", "Output power", "Rated output"],
-    "rated.speed": ["Rated speed", "Speed", "Base speed"],
+    "rated.power": ["Rated power", "Output power", "Rated output", "Nominal power",
+                    "Shaft power"],
+    "rated.speed": ["Rated speed", "Speed", "Base speed", "Nominal speed"],
     "rated.torque": ["Rated torque", "Torque", "Continuous torque"],
-    "rated.current": ["Rated current", "Current"],
+    "rated.current": ["Rated current", "Current", "Nominal current"],
     "rated.voltage": ["Rated voltage", "Voltage"],
     "rated.frequency": ["Frequency", "Rated frequency"],
     "rated.power_factor": ["Power factor", "cos φ"],
@@ -144,10 +148,10 @@ LABELS_EN = {
 }
 LABELS_DE = {
     "id": ["Typ", "Typbezeichnung"],
-    "rated.power": ["Bemessungsleistung", "Nennleistung"],
-    "rated.speed": ["Bemessungsdrehzahl", "Nenndrehzahl"],
+    "rated.power": ["Bemessungsleistung", "Nennleistung", "Leistung"],
+    "rated.speed": ["Bemessungsdrehzahl", "Nenndrehzahl", "Drehzahl"],
     "rated.torque": ["Bemessungsmoment", "Nennmoment"],
-    "rated.current": ["Bemessungsstrom", "Nennstrom"],
+    "rated.current": ["Bemessungsstrom", "Nennstrom", "Strom"],
     "rated.voltage": ["Bemessungsspannung", "Nennspannung"],
     "rated.frequency": ["Frequenz", "Bemessungsfrequenz"],
     "rated.power_factor": ["Leistungsfaktor", "cos φ"],
@@ -185,6 +189,22 @@ class Style:
     comma: bool = False
     grouping: str = ""
     footnotes: float = 0.0  # share of values with a footnote mark
+
+    shuffle: bool = False
+    unit_brackets: tuple[str, str] = ("[", "]")
+
+    def order(self, fields: Sequence[str]) -> list[str]:
+        """The fields in the order this document prints them."""
+        fields = list(fields)
+        if self.shuffle:
+            self.rng.shuffle(fields)
+        return fields
+
+    def named(self, label: str, unit: str) -> str:
+        """A label with its unit: "Rated power [kW]", "(kW)" or "/ kW"."""
+        left, right = self.unit_brackets
+        return f"{label} {left}{unit}{right}".rstrip() if left.strip() else \
+            f"{label}{left}{unit}"
 
     def label(self, path: str) -> str:
         table = LABELS_DE if self.german else LABELS_EN
@@ -229,6 +249,7 @@ class Table:
     widths: list[float]
     ruling: str = "none"  # none | grid | horizontal
     align: str = "R"
+    fields: list[str] = field(default_factory=list)  # in the order printed
 
 
 @dataclass
@@ -257,13 +278,14 @@ def catalogue_table(style: Style, machines: list[Machine], fields: list[str], *,
     """One machine per row. ``units``: ``row`` (a units row), ``names`` ("[kW]") or
     ``cells`` ("75 kW")."""
     rows: list[list[str]] = []
+    fields = style.order(fields)
     names = [SYMBOLS["id"] if symbols else style.label("id")]
     unit_row = [""]
     for path in fields:
         name = SYMBOLS[path] if symbols else style.label(path)
         unit = style.unit(path) if FIELD_UNITS[path][0] else ""
         if units == "names" and unit:
-            name += f" [{unit}]"
+            name = style.named(name, unit)
         names.append(name)
         unit_row.append(unit)
         if unit_columns:
@@ -288,7 +310,7 @@ def catalogue_table(style: Style, machines: list[Machine], fields: list[str], *,
     count = len(rows[0])
     total = min(max(count * 62, 400), 760)
     return Table(rows, widths_for(style.rng, count, 70, total), style.rng.choice(
-        ("none", "grid", "horizontal")))
+        ("none", "grid", "horizontal")), fields=fields)
 
 
 def label_value_table(style: Style, machines: list[Machine], fields: list[str], *,
@@ -298,6 +320,7 @@ def label_value_table(style: Style, machines: list[Machine], fields: list[str], 
     ``before`` (between labels and values), ``name`` ("Power [kW]"), ``value_first``
     ("kW 75")."""
     rows: list[list[str]] = []
+    fields = style.order(fields)
     head = ["Parameter" if not style.german else "Größe"]
     if symbol:
         head.append("")
@@ -317,7 +340,7 @@ def label_value_table(style: Style, machines: list[Machine], fields: list[str], 
         unit = style.unit(path) if FIELD_UNITS[path][0] else ""
         label = style.label(path)
         if unit_place == "name" and unit:
-            label += f" [{unit}]"
+            label = style.named(label, unit)
         row = [label]
         if symbol:
             row.append(SYMBOLS[path])
@@ -336,8 +359,19 @@ def label_value_table(style: Style, machines: list[Machine], fields: list[str], 
                  style.rng.choice(("none", "grid", "horizontal")), align="L")
 
 
+#: documents vary beyond their layout when the corpus is built with ``variation=True``
+VARIATION = {"on": False}
+
+
 def _style(seed: int, **kwargs: Any) -> Style:
-    return Style(random.Random(seed), **kwargs)
+    style = Style(random.Random(seed), **kwargs)
+    if VARIATION["on"]:
+        rng = style.rng
+        style.shuffle = rng.random() < 0.7
+        style.unit_brackets = rng.choice((("[", "]"), ("(", ")"), (" / ", "")))
+        if "grouping" not in kwargs:
+            style.grouping = rng.choice(("", " ", "\u2009", "." if style.comma else ","))
+    return style
 
 
 def _machines(rng: random.Random, prefix: str, count: int, **kwargs: Any) -> list[Machine]:
@@ -372,7 +406,13 @@ def layout_catalogue_two_pages(seed: int, count: int = 30, repeat_header: bool =
     fields = CATALOGUE_FIELDS[:8]
     half = (count + 1) // 2
     first = catalogue_table(style, machines[:half], fields, units="row")
-    second = catalogue_table(style, machines[half:], fields, units="row", header=repeat_header)
+    shuffle, style.shuffle = style.shuffle, False  # page 2 continues the same columns
+    second = catalogue_table(style, machines[half:], first.fields, units="row",
+                             header=repeat_header)
+    if repeat_header:
+        second.rows[0] = list(first.rows[0])
+        second.rows[1] = list(first.rows[1])
+    style.shuffle = shuffle
     second.widths, second.ruling = first.widths, first.ruling
     pages = [["Brightwater Drives (invented): catalogue 2026, 400 V, 8 poles", first],
              ["Catalogue 2026 (continued)" if repeat_header else "", second]]
@@ -636,7 +676,8 @@ def write_xlsx(document: Document, path: Path) -> None:
                 if not text:
                     continue
                 cell = sheet.cell(r, c)
-                plain = text.replace(",", ".") if document.decimal_comma else text
+                plain = (text.replace(".", "").replace(",", ".") if document.decimal_comma
+                         else text.replace(",", ""))  # grouping marks are the format's job
                 if _plain_number(plain):
                     decimals = len(plain.partition(".")[2])
                     cell.value = float(plain) if decimals else int(plain)
@@ -654,12 +695,18 @@ def _plain_number(text: str) -> bool:
     return text.strip() == text and not text.startswith(("+", "-"))
 
 
-def build(out_dir: Path, booklet_pages: int = 12, seed: int = 18) -> list[str]:
+def build(out_dir: Path, booklet_pages: int = 12, seed: int = 18,
+          variation: bool = False) -> list[str]:
+    """Write every layout; ``variation`` also shuffles field order, unit brackets, thousands
+    separators and fonts by ``seed`` (the fixed corpus of the tests has it off)."""
     out_dir.mkdir(parents=True, exist_ok=True)
+    VARIATION["on"] = variation
     names = []
     for offset, (name, make) in enumerate(LAYOUTS.items()):
         document = (layout_booklet(seed + offset, booklet_pages) if name == "booklet"
                     else make(seed + offset))
+        if variation:
+            document.font = random.Random(seed * 100 + offset).choice(FONTS)
         write_pdf(document, out_dir / f"{name}.pdf")
         write_csv(document, out_dir / f"{name}.csv")
         write_xlsx(document, out_dir / f"{name}.xlsx")
@@ -675,11 +722,16 @@ def main(argv: list[str]) -> int:
         print(__doc__)
         return 2
     pages = 12
+    seed, variation = 18, False
+    if "--seed" in argv:
+        at = argv.index("--seed")
+        seed, variation = int(argv[at + 1]), True
+        del argv[at:at + 2]
     if "--booklet-pages" in argv:
         at = argv.index("--booklet-pages")
         pages = int(argv[at + 1])
         del argv[at:at + 2]
-    names = build(Path(argv[0]), pages)
+    names = build(Path(argv[0]), pages, seed, variation)
     print(f"{len(names)} layouts written to {argv[0]}")
     return 0
 

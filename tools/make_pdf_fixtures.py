@@ -441,7 +441,7 @@ def pump_two_tables(pdf: Sheet) -> dict:
     pdf.prose(y, "Page 1 of 1")
     data = {
         "id": "KS-P 200-6", "maker": MAKER_KS,
-        "machine": {"poles": 6, "connection": "star"},
+        "machine": {"poles": 6, "connection": "star", "ambient": "40 °C"},  # from the prose
         "rated": {"power": "30 kW", "speed": "1000 rpm", "torque": f"{v['torque']} N·m",
                   "frequency": "50 Hz", "voltage": "400 V", "current": f"{v['curr']} A",
                   "power_factor": v["pf"], "efficiency": f"{v['eta']} %",

@@ -70,6 +70,7 @@ class GridRecord:
     locations: dict[str, dict[str, Any]] = field(default_factory=dict)
     origin: dict[str, Any] = field(default_factory=dict)
     from_columns: bool = False  # a label / value table (may be merged with the next one)
+    context_paths: set[str] = field(default_factory=set)  # filled from a title or note
 
     def get(self, path: str) -> Any:
         node: Any = self.data
@@ -155,13 +156,10 @@ class GridReader:
         return self._number_cache[key]
 
     def is_unit(self, text: str) -> bool:
-        text = text.strip()
-        if text.startswith(("[", "(")) and text.endswith(("]", ")")):
-            text = text[1:-1]
-        return self.vocab.unit(text) is not None
+        return self.unit_of(text) is not None
 
     def unit_of(self, text: str) -> str | None:
-        text = text.strip()
+        text = text.strip().removeprefix("/").strip()
         if text.startswith(("[", "(")) and text.endswith(("]", ")")):
             text = text[1:-1]
         return self.vocab.unit(text)
@@ -214,6 +212,17 @@ class GridReader:
         """Records of a block of consecutive rows, and the common values it states."""
         left = min(row.cells[0][0] for row in block)
         kinds = [self.row_kind(row, left) for row in block]
+        for i, kind in enumerate(kinds):
+            # "Type | Rated | Base | ..." over a catalogue is a header, not a label row
+            if kind != "labels" or any(self.is_number(t) for t in block[i].texts):
+                continue
+            for j in range(i + 1, min(i + 2 + MAX_HEADER_ROWS, len(block))):
+                if kinds[j] == "data":
+                    kinds[i] = "text"
+                    break
+                if kinds[j] not in ("text", "units", "labels", "section") or any(
+                        self.is_number(t) for t in block[j].texts):
+                    break
         made: list[GridRecord] = []
         leftover: list[tuple[str, Any, dict[str, Any], str]] = []
         used: set[int] = set()
@@ -248,10 +257,12 @@ class GridReader:
                 context = []
                 index = end
                 continue
-            if kind == "labels":
+            if kind in ("labels", "colon"):
                 end = index
                 while end < len(block) and kinds[end] in ("labels", "section", "colon"):
                     end += 1
+                while end > index + 1 and kinds[end - 1] == "section":
+                    end -= 1
                 above = None
                 if index > 0 and kinds[index - 1] in ("text",) and len(block[index - 1].cells) >= 2:
                     above = block[index - 1]
@@ -260,11 +271,6 @@ class GridReader:
                 made.extend(self.read_columns(above, block[index:end], locate, context))
                 used.update(range(index, end))
                 index = end
-                continue
-            if kind == "colon":
-                made.extend(self.read_columns(None, [block[index]], locate, context))
-                used.add(index)
-                index += 1
                 continue
             index += 1
         # rows no table used: common values (titles, notes), or unknown label / value rows
@@ -286,10 +292,7 @@ class GridReader:
         if len(texts) == 1 and row.cells[0][0] > left:
             return "units" if self.is_unit(texts[0]) else "text"
         if len(texts) == 1:
-            found = re.match(r"^([^:]{2,40}):\s*(\S.*)$", texts[0])
-            if found and self.label(found.group(1)) is not None:
-                return "colon"
-            return "section"
+            return "colon" if self.split_label_value(texts[0]) else "section"
         if all(self.is_unit(t) or self.is_heading(t) for t in texts):
             return "units"
         first_label = self.label(texts[0])
@@ -310,6 +313,27 @@ class GridReader:
                        for t in texts):
                 return "data"
         return "text"
+
+    def split_label_value(self, text: str) -> tuple[LabelMatch, str, str] | None:
+        """``'Maker: X'`` or ``'Back-EMF constant [V/krpm] 137.3'`` (a label and its value
+        in one cell): the label's match, the label and the value text; else None."""
+        found = re.match(r"^([^:]{2,60}):\s*(\S.*)$", text)
+        if found is None and len(text) <= 60:
+            words = text.split()
+            for cut in range(1, min(len(words), 4)):
+                head = " ".join(words[:cut])
+                match = self.label(head)
+                if match is not None and match.path in ("id", "maker"):
+                    return match, head, " ".join(words[cut:])
+        if found is None:
+            found = re.match(r"^(.*?[^\d\s])\s+([-+−]?\d[\d\u2009 .,]*(?:\s*\S+)?)$", text)
+            if found is None or (not self.is_number(found.group(2)) and parse_quantity(
+                    found.group(2), self.decimal_comma) is None):
+                return None
+        match = self.label(found.group(1))
+        if match is None:
+            return None
+        return match, found.group(1), found.group(2)
 
     def _label_is_header(self, text: str) -> bool:
         """A label in a data row that is really a label (not a value such as 'star')."""
@@ -335,6 +359,7 @@ class GridReader:
         labels, matches = [], []
         for column in range(width):
             label = " ".join(texts[column])
+            label = re.sub(r"\s*(?:/|\[\s*\]|\(\s*\))\s*$", "", label)  # "speed /" + unit row
             match = self.label(label) if label else None
             if match is None and len(texts[column]) > 1:
                 for piece in texts[column]:  # a name row and a symbol row
@@ -497,7 +522,7 @@ class GridReader:
         value_columns: list[int] = []
         for _row, cells in part:
             _label_column, label_text = cells[0]
-            if len(cells) == 1 and ":" in label_text:
+            if len(cells) == 1:
                 continue
             for column, text in cells[1:]:
                 if self.is_unit(text) or _squash(text) in self.vocab.symbols:
@@ -517,14 +542,12 @@ class GridReader:
         for row, cells in part:
             label_column, label_text = cells[0]
             if len(cells) == 1:
-                found = re.match(r"^([^:]{2,40}):\s*(\S.*)$", label_text)
-                if found is None:
+                pair = self.split_label_value(label_text)
+                if pair is None:
                     continue
-                match = self.label(found.group(1))
                 target = records[value_columns[0]] if len(value_columns) == 1 else single
-                if match is not None:
-                    self.store(target, match, found.group(2), None, None,
-                               locate(row.index, label_column), found.group(1))
+                self.store(target, pair[0], pair[2], None, None,
+                           locate(row.index, label_column), pair[1])
                 continue
             match = self.label(label_text)
             if match is None:
@@ -632,6 +655,7 @@ class GridReader:
             for record in records:
                 if record.get(path) is None:
                     record.set(path, value, where)
+                    record.context_paths.add(path)
 
     # ---- the end
 
@@ -646,11 +670,18 @@ class GridReader:
                 shared.append(record)
                 continue
             previous = merged[-1] if merged else None
+            own = set(record.locations) - record.context_paths
             if (record.from_columns and previous is not None and previous.from_columns
                     and record.get("id") is None
-                    and not set(record.locations) & set(previous.locations)):
+                    and not own & (set(previous.locations) - previous.context_paths)):
                 for path, where in record.locations.items():
-                    previous.set(path, record.get(path), where)
+                    if path in own or previous.get(path) is None:
+                        if path in previous.context_paths and path in own:
+                            previous.context_paths.discard(path)
+                            _drop(previous.data, path)
+                        previous.set(path, record.get(path), where)
+                        if path not in own:
+                            previous.context_paths.add(path)
                 continue
             merged.append(record)
         for source in shared:
@@ -668,6 +699,16 @@ class GridReader:
                 self.notes.append(f"record {number} ({_where_text(record.origin)}) names no "
                                   f"model; its id is set to '{stem}#{number}'")
         return merged
+
+
+def _drop(data: dict[str, Any], path: str) -> None:
+    """Remove ``path`` from a nested record (a common value that a table states itself)."""
+    parts = path.split(".")
+    node: Any = data
+    for part in parts[:-1]:
+        node = node.get(part) if isinstance(node, dict) else None
+    if isinstance(node, dict):
+        node.pop(parts[-1], None)
 
 
 def _where_text(location: dict[str, Any]) -> str:
