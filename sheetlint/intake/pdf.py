@@ -602,12 +602,61 @@ def _extract(path: str, max_pages: int, time_limit: float, started: float) -> Pd
         return PdfExtraction(path, found, unmapped, notes, len(pages))
 
 
-def dump_records(extraction: PdfExtraction, fmt: str) -> str:
-    """The records as ``{"records": [...]}`` in ``fmt`` ``'json'`` or ``'yaml'``."""
-    document = {"records": [record.data for record in extraction.records]}
+def location_text(location: dict[str, Any] | None) -> str:
+    """Where a value was read, for people: ``p.2: Rated power | 75 | kW``, ``Catalogue!D7``,
+    ``line 7, cell D7``."""
+    if not location:
+        return ""
+    if "page" in location:
+        cell = location.get("cell")
+        return f"p.{location['page']}" + (f": {cell}" if cell else "")
+    if "sheet" in location:
+        return f"{location['sheet']}!{location.get('cell', '')}"
+    if "line" in location:
+        cell = location.get("cell")
+        return f"line {location['line']}" + (f", cell {cell}" if cell else "")
+    return ""
+
+
+def dump_records(extraction: Any, fmt: str) -> str:
+    """The records as ``{"records": [...]}`` in ``fmt`` ``'json'`` or ``'yaml'``, with where
+    each value was read: YAML as a comment beside the value, JSON as ``"locations"`` (one
+    mapping of field path to location per record) beside ``"records"``, which the intake
+    of JSON files ignores."""
+    records = [record.data for record in extraction.records]
     if fmt == "json":
+        document = {"records": records,
+                    "locations": [record.locations for record in extraction.records]}
         return json.dumps(document, indent=2, ensure_ascii=False) + "\n"
     if fmt == "yaml":
-        header = f"# records read from {extraction.path}\n"
-        return header + yaml.safe_dump(document, allow_unicode=True, sort_keys=False)
+        lines = [f"# records read from {extraction.path}; beside each value: where it was "
+                 "read", "records:"]
+        for record in extraction.records:
+            body = _yaml_mapping(record.data, record.locations, "", 1)
+            body[0] = "- " + body[0][2:]
+            lines.extend(body)
+        return "\n".join(lines) + "\n"
     raise ValueError(f"unknown format {fmt!r}: use 'json' or 'yaml'")
+
+
+def _yaml_mapping(data: dict[str, Any], locations: dict[str, dict[str, Any]], prefix: str,
+                  depth: int) -> list[str]:
+    pad = "  " * depth
+    lines = []
+    for key, value in data.items():
+        path = f"{prefix}{key}"
+        name = _yaml_flow(key)
+        if isinstance(value, dict) and "value" not in value:
+            lines.append(f"{pad}{name}:")
+            lines.extend(_yaml_mapping(value, locations, path + ".", depth + 1))
+            continue
+        where = location_text(locations.get(path)).replace("\n", " ")
+        lines.append(f"{pad}{name}: {_yaml_flow(value)}" + (f"  # {where}" if where else ""))
+    return lines
+
+
+def _yaml_flow(value: Any) -> str:
+    """One value in YAML flow style, quoted where YAML needs it."""
+    text = yaml.safe_dump([value], allow_unicode=True, default_flow_style=True, sort_keys=False,
+                          width=1_000_000).strip()
+    return text[1:-1]

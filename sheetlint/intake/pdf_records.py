@@ -50,3 +50,21 @@ def spreadsheet_raw_records(path: str, max_bytes: int | None = None) -> list[Raw
     if not extraction.records:
         raise NoMachineTable(f"{path}: no machine table found")
     return _raw(extraction.records)
+
+
+def extract_document(path: str) -> Any:
+    """The extraction of a PDF, CSV or XLSX file (records with locations, unmapped cells,
+    notes), for ``sheetlint extract``. Raises InputProblem for an unreadable file."""
+    if path.lower().endswith((".csv", ".xlsx")):
+        from sheetlint.intake.spreadsheet import SpreadsheetError, extract_spreadsheet
+
+        try:
+            return extract_spreadsheet(path)
+        except SpreadsheetError as exc:
+            raise InputProblem(str(exc)) from None
+    from sheetlint.intake.pdf import PdfError, extract_pdf
+
+    try:
+        return extract_pdf(path)
+    except PdfError as exc:
+        raise InputProblem(str(exc)) from None
