@@ -531,9 +531,11 @@ class GridReader:
                     value_columns.append(column)
         value_columns.sort()
         names: dict[int, tuple[str, dict[str, Any]]] = {}
-        if above is not None and len(value_columns) > 1:
+        if above is not None and value_columns:
             for column, text in above.cells:
-                if column in value_columns and not self.is_heading(text):
+                if column in value_columns and not self.is_heading(text) and (
+                        len(value_columns) > 1  # one value column: a model name has digits
+                        or (re.search(r"\d", text) and self.label(text) is None)):
                     names[column] = (text, locate(above.index, column))
         records = {column: GridRecord(from_columns=True) for column in value_columns}
         single = GridRecord(from_columns=True)
