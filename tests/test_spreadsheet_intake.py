@@ -282,3 +282,48 @@ def test_check_on_a_folder_of_json_yaml_pdf_csv_and_xlsx_checks_them_all(
                          for r in files[f]["records"] for x in r["findings"]
                          if x["location"]]
     assert all("page" in loc or "sheet" in loc for loc in finding_locations)
+
+
+def test_findings_carry_sheet_and_cell_in_json_sarif_html_and_text(
+        tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    """f = p·n/60 (synchronous speed): 4 poles at 1800 rpm make 60 Hz, not 50 Hz. The
+    finding must point at a workbook cell of the fields it names."""
+    openpyxl = pytest.importorskip("openpyxl")
+    path = tmp_path / "offer.xlsx"
+    workbook = openpyxl.Workbook()
+    sheet = workbook.active
+    sheet.title = "Offer"
+    sheet.append(["Type", "Rated power [kW]", "Rated speed [rpm]", "Frequency [Hz]",
+                  "Number of poles"])
+    sheet.append(["KS-O 20 (invented)", 20, 1800, 50, 4])
+    workbook.save(path)
+    cells = {"C2", "D2", "E2"}
+    main(["check", "--format", "json", str(path)])
+    (record,) = json.loads(capsys.readouterr().out)["files"][0]["records"]
+    found = [x for x in record["findings"] if x["rule"] == "synchronous-speed"]
+    assert found and found[0]["location"]["sheet"] == "Offer"
+    cell = found[0]["location"]["cell"]
+    assert cell in cells
+    main(["check", "--format", "sarif", str(path)])
+    sarif = json.loads(capsys.readouterr().out)
+    locations = [r["locations"][0] for r in sarif["runs"][0]["results"]
+                 if r["ruleId"] == "synchronous-speed"]
+    assert locations[0]["properties"] == {"sheet": "Offer", "cell": cell}
+    main(["check", str(path)])
+    assert f"Offer!{cell}" in capsys.readouterr().out
+    out = tmp_path / "report.html"
+    main(["report", str(path), "-o", str(out)])
+    assert f"Offer!{cell}" in out.read_text(encoding="utf-8")
+
+
+def test_extract_reads_a_csv_and_lists_what_it_could_not_map(
+        tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    path = tmp_path / "variants.csv"
+    path.write_text("Parameter,Unit,KS-A 1\nRated power,kW,5.5\nPaint colour,,RAL 5010\n",
+                    encoding="utf-8")
+    assert main(["extract", str(path), "--show-unmapped"]) == 0
+    captured = capsys.readouterr()
+    document = json.loads(captured.out)
+    assert document["records"] == [{"id": "KS-A 1", "rated": {"power": "5.5 kW"}}]
+    assert document["locations"][0]["rated.power"] == {"line": 2, "cell": "C2"}
+    assert "line 3, cell A3: Paint colour = RAL 5010" in captured.err

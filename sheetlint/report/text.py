@@ -40,6 +40,8 @@ def render(results: list[FileResult], show_info: bool = True, show_derived: bool
                         where = f"{name}:{x.location['line']}: "
                     elif "page" in x.location:
                         where = f"{name} p.{x.location['page']}: "
+                    elif "sheet" in x.location:
+                        where = f"{name} {x.location['sheet']}!{x.location.get('cell', '')}: "
                 sev = MARK[x.severity] if x.suppressed is None else "suppr. "
                 text = f"  {sev} {x.rule:<20} {where}{x.message}"
                 if x.expected and x.actual and x.severity != "info":
