@@ -546,6 +546,47 @@ def layout_footnotes(seed: int) -> Document:
     return Document([page], [answer(m, fields, None, common) for m in machines], FONTS[2])
 
 
+def layout_catalogue_units_in_cells(seed: int) -> Document:
+    style = _style(seed)
+    machines = _machines(style.rng, "BW-E", 9, poles=4)
+    fields = CATALOGUE_FIELDS[:7]
+    table = catalogue_table(style, machines, fields, units="cells")
+    page = ["Brightwater Drives (invented) - E series, 4 poles, 40 °C ambient", table]
+    common = {"machine.poles": 4.0, "machine.ambient": 313.15}
+    return Document([page], [answer(m, fields, None, common) for m in machines], FONTS[4])
+
+
+def layout_booklet_de_symbols(seed: int, pages: int = 6) -> Document:
+    style = _style(seed, german=True, comma=True)
+    fields = ["rated.power", "rated.speed", "rated.torque", "rated.current", "rated.voltage",
+              "rated.frequency", "rated.power_factor", "rated.efficiency", "emf.constant",
+              "circuit.resistance", "circuit.ld", "circuit.lq", "machine.inertia"]
+    machines = _machines(style.rng, "TS-D", pages)
+    out_pages, answers = [], []
+    for number, machine in enumerate(machines, start=1):
+        table = label_value_table(style, [machine], fields, unit_place="after", symbol=True)
+        out_pages.append([f"Datenblatt {number}/{pages} (erfunden)", table])
+        item = answer(machine, fields)
+        item["page"] = number
+        answers.append(item)
+    return Document(out_pages, answers, FONTS[1], decimal_comma=True)
+
+
+def layout_colon_lines(seed: int) -> Document:
+    style = _style(seed)
+    machines = _machines(style.rng, "KS-L", 2)
+    fields = ["rated.power", "rated.speed", "rated.torque", "rated.current", "rated.voltage",
+              "rated.efficiency"]
+    pages = []
+    for machine in machines:
+        lines = [f"{style.label('id')}: {machine.model}"]
+        for path in style.order(fields):
+            unit = style.unit(path)
+            lines.append(f"{style.label(path)}: {style.value(machine, path)} {unit}".strip())
+        pages.append(lines)
+    return Document(pages, [answer(m, fields) for m in machines], FONTS[0])
+
+
 LAYOUTS: dict[str, Callable[[int], Document]] = {
     "catalogue_units_row": layout_catalogue_units_row,
     "catalogue_units_in_names_de": layout_catalogue_units_in_names_de,
@@ -560,6 +601,9 @@ LAYOUTS: dict[str, Callable[[int], Document]] = {
     "symbol_headers": layout_symbol_headers,
     "section_rows": layout_section_rows,
     "footnote_marks": layout_footnotes,
+    "catalogue_units_in_cells": layout_catalogue_units_in_cells,
+    "booklet_de_symbols": layout_booklet_de_symbols,
+    "colon_lines": layout_colon_lines,
 }
 
 

@@ -326,12 +326,20 @@ def parse_quantity(text: str, decimal_comma: bool | None) -> Quantity | None:
             return None
         return Quantity(inner.number, vocabulary().unit(first.group(1)), "")
     raw = found.group(1).rstrip(" \u2009\u202f\u00a0'’.,")
-    rest = text.strip()[found.start(1) + len(raw):].strip()
     number = normalise_number(raw, decimal_comma)
+    backed_off = number is None
+    while number is None and re.search(r"[ \u2009\u202f\u00a0]", raw):
+        # the last group may start the unit: "1 500 1/min" is 1500 in 1/min
+        raw = re.split(r"[ \u2009\u202f\u00a0](?=[^ \u2009\u202f\u00a0]*$)", raw)[0]
+        number = normalise_number(raw.rstrip(" '’.,"), decimal_comma)
+        if number is not None:
+            raw = raw.rstrip(" '’.,")
     if number is None:
-        # a trailing group may belong to the unit ("2 p" is not a number) -> fail clearly
         return None
+    rest = text.strip()[found.start(1) + len(raw):].strip()
     unit = vocabulary().unit(rest) if rest else None
+    if backed_off and unit is None:
+        return None  # "12 3" is no number; only a unit may follow the groups
     return Quantity(number, unit, "" if unit else rest)
 
 

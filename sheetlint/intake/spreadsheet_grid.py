@@ -212,6 +212,14 @@ class GridReader:
         """Records of a block of consecutive rows, and the common values it states."""
         left = min(row.cells[0][0] for row in block)
         kinds = [self.row_kind(row, left) for row in block]
+        for i in range(len(block) - 1, 0, -1):
+            # a unit wrapped onto a line of its own below a catalogue row belongs to that row
+            if kinds[i] == "units" and kinds[i - 1] == "data":
+                above = dict(block[i - 1].cells)
+                for column, text in block[i].cells:
+                    above[column] = f"{above.get(column, '')} {text}".strip()
+                block[i - 1] = _Row(block[i - 1].index, sorted(above.items()))
+                del block[i], kinds[i]
         for i, kind in enumerate(kinds):
             # "Type | Rated | Base | ..." over a catalogue is a header, not a label row
             if kind != "labels" or any(self.is_number(t) for t in block[i].texts):
