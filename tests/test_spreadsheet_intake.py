@@ -327,3 +327,22 @@ def test_extract_reads_a_csv_and_lists_what_it_could_not_map(
     assert document["records"] == [{"id": "KS-A 1", "rated": {"power": "5.5 kW"}}]
     assert document["locations"][0]["rated.power"] == {"line": 2, "cell": "C2"}
     assert "line 3, cell A3: Paint colour = RAL 5010" in captured.err
+
+
+@pytest.mark.parametrize(("title", "expected"), [
+    ("400 V, 6 poles, 40 °C coolant", {"rated.voltage": "400 V", "machine.poles": 6,
+                                       "machine.ambient": "40 °C"}),
+    ("Baureihe TS-K (erfunden), 690 V, 4-polig, IC411, S1",
+     {"rated.voltage": "690 V", "machine.poles": 4, "machine.cooling": "IC411",
+      "machine.duty": "S1"}),
+    ("Series KS-S1 (invented), IE4-ready frame", {}),
+    ("¹ at 20 °C winding temperature", {}),
+    ("The motor drives the booster pump of the reservoir (invented). It is fed by a 400 V "
+     "converter.", {}),
+])
+def test_values_common_to_a_table_from_its_title(title: str, expected: dict[str, Any]) -> None:
+    from sheetlint.intake.spreadsheet_grid import GridReader, _Row
+
+    reader = GridReader("title")
+    found = reader.context_values(_Row(0, [(0, title)]), lambda r, c: {"cell": "A1"})
+    assert {path: value for path, value, _where, _text in found} == expected

@@ -40,6 +40,9 @@ from sheetlint.intake.pdf import (
 Locate = Callable[[int, int], dict[str, Any]]
 
 _NUMBER = r"\d{1,3}(?:[.,]\d+)?"
+#: a voltage or frequency without a word naming it counts only in a title this short
+MAX_TITLE_CHARS = 80
+BARE_UNIT_FIELDS = ("rated.voltage", "rated.frequency")
 #: values a title or caption states for a whole table, and the field each one fills
 CONTEXT_PATTERNS: list[tuple[re.Pattern[str], str]] = [
     (re.compile(r"\b(\d{1,2})\s*-?\s*(?:poles?|polig|pole)\b", re.IGNORECASE), "machine.poles"),
@@ -51,9 +54,9 @@ CONTEXT_PATTERNS: list[tuple[re.Pattern[str], str]] = [
                 + _NUMBER + r"\s*°\s*C)", re.IGNORECASE), "machine.ambient"),
     (re.compile(r"(\d{1,5}\s*m)\s+(?:above sea level|altitude|über nn|ü\. ?nn)",
                 re.IGNORECASE), "machine.altitude"),
-    (re.compile(r"\b(IC\s?\d{2,3}[A-Z0-9]*)\b"), "machine.cooling"),
-    (re.compile(r"\b(S(?:10|[1-9]))\b(?![-.\d])"), "machine.duty"),
-    (re.compile(r"\b(IE[1-5])\b"), "efficiency_class"),
+    (re.compile(r"(?<![\w-])(IC\s?\d{2,3}[A-Z0-9]*)\b"), "machine.cooling"),
+    (re.compile(r"(?<![\w-])(S(?:10|[1-9]))\b(?![-.\d])"), "machine.duty"),
+    (re.compile(r"(?<![\w-])(IE[1-5])\b(?!-)"), "efficiency_class"),
     (re.compile(r"(?:insulation class|thermal class|isolierstoffklasse|wärmeklasse)\s+"
                 r"([BFH]|1[358][05])\b", re.IGNORECASE), "machine.thermal_class"),
 ]
@@ -629,6 +632,8 @@ class GridReader:
             where = locate(row.index, column)
             spans: list[tuple[int, int]] = []
             for pattern, path in CONTEXT_PATTERNS:
+                if path in BARE_UNIT_FIELDS and len(text) > MAX_TITLE_CHARS:
+                    continue  # "fed by a 400 V converter" in prose is no rating
                 for hit in pattern.finditer(text):
                     if any(a < hit.end() and hit.start() < b for a, b in spans):
                         continue
