@@ -346,3 +346,19 @@ def test_values_common_to_a_table_from_its_title(title: str, expected: dict[str,
     reader = GridReader("title")
     found = reader.context_values(_Row(0, [(0, title)]), lambda r, c: {"cell": "A1"})
     assert {path: value for path, value, _where, _text in found} == expected
+
+
+def test_hostile_spreadsheets_in_a_folder_exit_2_name_the_file_and_spare_the_others(
+        tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    (tmp_path / "empty.xlsx").write_bytes(b"")
+    (tmp_path / "text.xlsx").write_text("Rated power;75 kW\n", encoding="utf-8")
+    (tmp_path / "line.csv").write_bytes(b"1;" * 200_000)
+    (tmp_path / "good.csv").write_text("Type;Rated power [kW];Rated speed [rpm]\n"
+                                       "NW-G 1 (invented);15;1500\n", encoding="utf-8")
+    status = main(["check", "--format", "json", str(tmp_path)])
+    captured = capsys.readouterr()
+    assert status == 2 and "Traceback" not in captured.err
+    files = {Path(f["path"]).name: f for f in json.loads(captured.out)["files"]}
+    for name in ("empty.xlsx", "text.xlsx", "line.csv"):
+        assert name in files[name]["error"]
+    assert [r["id"] for r in files["good.csv"]["records"]] == ["NW-G 1 (invented)"]
