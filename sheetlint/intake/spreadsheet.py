@@ -29,8 +29,8 @@ from sheetlint.intake.spreadsheet_grid import GridReader, GridRecord
 
 SPREADSHEET_SUFFIXES = (".csv", ".xlsx")
 MAX_BYTES = 20_000_000
-#: rows and columns read from one sheet; a datasheet table is far smaller
-MAX_ROWS = 5_000
+#: rows and columns read from one sheet; a catalogue export is smaller
+MAX_ROWS = 20_000
 MAX_COLUMNS = 200
 #: a CSV line longer than this is not a table row
 MAX_LINE_CHARS = 100_000
@@ -234,17 +234,22 @@ def _read_xlsx(name: str, reader: GridReader) -> int:
             sheets += 1
             rows: list[list[str]] = []
             empty_run = 0
+            filled = 0
             for cells in sheet.iter_rows(max_row=MAX_ROWS, max_col=MAX_COLUMNS):
                 row = [shown_text(getattr(c, "value", None), getattr(c, "number_format", None))
                        for c in cells]
                 if any(row):
                     empty_run = 0
+                    filled = len(rows) + 1
                 else:
                     empty_run += 1
                     if empty_run > MAX_EMPTY_RUN:
                         break
                 rows.append(row)
             title = sheet.title
+            if filled >= MAX_ROWS:
+                reader.notes.append(f"sheet {title}: only the first {MAX_ROWS:,} rows were "
+                                    "read")
 
             def locate(row: int, column: int, title: str = title) -> dict[str, Any]:
                 return {"sheet": title, "cell": f"{column_letter(column)}{row + 1}"}
