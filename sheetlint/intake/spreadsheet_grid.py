@@ -62,7 +62,7 @@ CONTEXT_PATTERNS: list[tuple[re.Pattern[str], str]] = [
 ]
 
 #: largest header a catalogue table has above its first data row (lines)
-MAX_HEADER_ROWS = 3
+MAX_HEADER_ROWS = 5
 
 
 @dataclass
@@ -270,7 +270,12 @@ class GridReader:
                 continue
             if kind in ("labels", "colon"):
                 end = index
+                named = False
                 while end < len(block) and kinds[end] in ("labels", "section", "colon"):
+                    if self._names_a_model(block[end]):
+                        if named:
+                            break  # a second 'Type' row starts the next machine's table
+                        named = True
                     end += 1
                 while end > index + 1 and kinds[end - 1] == "section":
                     end -= 1
@@ -295,6 +300,14 @@ class GridReader:
                                       "label": row.cells[0][1],
                                       "value": " | ".join(row.texts[1:])})
         return made, leftover
+
+    def _names_a_model(self, row: _Row) -> bool:
+        first = row.cells[0][1]
+        match = self.label(first)
+        if match is None and len(row.cells) == 1:
+            pair = self.split_label_value(first)
+            match = pair[0] if pair else None
+        return match is not None and match.path == "id"
 
     def row_kind(self, row: _Row, left: int = 0) -> str:
         """``data`` (a catalogue row), ``labels`` (label then values), ``colon``
@@ -372,6 +385,16 @@ class GridReader:
             label = " ".join(texts[column])
             label = re.sub(r"\s*(?:/|\[\s*\]|\(\s*\))\s*$", "", label)  # "speed /" + unit row
             match = self.label(label) if label else None
+            if match is None and len(texts[column]) > 1:
+                # a word broken over two lines without a hyphen: "Bemessungsleist" + "ung"
+                glued = texts[column][0]
+                for piece in texts[column][1:]:
+                    glued += piece if piece[:1].islower() and glued[-1:].isalpha() else (
+                        " " + piece)
+                glued = re.sub(r"\s*(?:/|\[\s*\]|\(\s*\))\s*$", "", glued)
+                match = self.label(glued)
+                if match is not None:
+                    label = glued
             if match is None and len(texts[column]) > 1:
                 for piece in texts[column]:  # a name row and a symbol row
                     match = self.label(piece)
