@@ -15,7 +15,8 @@ unruled tables, footnote marks. Makers and model designations are invented.
     python tools/make_layout_corpus.py OUTPUT_DIR [--booklet-pages N] [--seed N]
 
 ``--seed`` draws another corpus with more variation (field order, unit brackets, thousands
-separators, fonts); without it the corpus is the fixed one the tests use.
+separators, fonts, and half the PDFs drawn by fpdf2's own table layout); without it the
+corpus is the fixed one the tests use.
 
 writes ``<layout>.pdf``, ``<layout>.csv``, ``<layout>.xlsx`` and ``<layout>.answer.json``.
 """
@@ -636,6 +637,41 @@ def write_pdf(document: Document, path: Path) -> None:
     pdf.output(str(path))
 
 
+def write_pdf_with_fpdf_tables(document: Document, path: Path) -> None:
+    """The same document through fpdf2's own table layout (``FPDF.table``): other cell
+    padding, vertical centring, header words cut at the cell edge, landscape pages, and
+    side-by-side tables stacked instead."""
+    from fpdf import FPDF
+
+    pdf = FPDF(unit="pt", format="A4")
+    pdf.add_font("Body", "", document.font)
+    pdf.set_font("Body", "", 7.5)
+    for items in document.pages:
+        pdf.add_page(orientation="L")
+        for item in items:
+            if isinstance(item, str):
+                if item:
+                    pdf.multi_cell(0, 12, item)
+                pdf.ln(6)
+                continue
+            tables = [item] if isinstance(item, Table) else list(item)
+            for table in tables:
+                width = max(len(row) for row in table.rows)
+                layout = "MINIMAL" if table.ruling == "none" else "ALL"
+                with pdf.table(text_align="LEFT", line_height=10, borders_layout=layout,
+                               first_row_as_headings=False,
+                               width=min(60 * width + 60, 760)) as drawn:
+                    for cells in table.rows:
+                        row = drawn.row()
+                        if len(cells) == 1:
+                            row.cell(cells[0], colspan=width)
+                            continue
+                        for text in cells + [""] * (width - len(cells)):
+                            row.cell(text)
+                pdf.ln(8)
+    pdf.output(str(path))
+
+
 def _wrap(pdf: Any, text: str, width: float) -> list[str]:
     """Words of ``text`` in lines no wider than ``width`` (a header cell over two lines)."""
     lines: list[str] = []
@@ -749,9 +785,13 @@ def build(out_dir: Path, booklet_pages: int = 12, seed: int = 18,
     for offset, (name, make) in enumerate(LAYOUTS.items()):
         document = (layout_booklet(seed + offset, booklet_pages) if name == "booklet"
                     else make(seed + offset))
+        draw = write_pdf
         if variation:
-            document.font = random.Random(seed * 100 + offset).choice(FONTS)
-        write_pdf(document, out_dir / f"{name}.pdf")
+            choice = random.Random(seed * 100 + offset)
+            document.font = choice.choice(FONTS)
+            if choice.random() < 0.5:
+                draw = write_pdf_with_fpdf_tables
+        draw(document, out_dir / f"{name}.pdf")
         write_csv(document, out_dir / f"{name}.csv")
         write_xlsx(document, out_dir / f"{name}.xlsx")
         (out_dir / f"{name}.answer.json").write_text(

@@ -214,6 +214,7 @@ class GridReader:
                    ) -> tuple[list[GridRecord], list[tuple[str, Any, dict[str, Any], str]]]:
         """Records of a block of consecutive rows, and the common values it states."""
         left = min(row.cells[0][0] for row in block)
+        self.join_wrapped_labels(block, left)
         kinds = [self.row_kind(row, left) for row in block]
         for i in range(len(block) - 1, 0, -1):
             # a unit wrapped onto a line of its own below a catalogue row belongs to that row
@@ -280,7 +281,9 @@ class GridReader:
                 while end > index + 1 and kinds[end - 1] == "section":
                     end -= 1
                 above = None
-                if index > 0 and kinds[index - 1] in ("text",) and len(block[index - 1].cells) >= 2:
+                if (index > 0 and kinds[index - 1] in ("text",)
+                        and len(block[index - 1].cells) >= 2
+                        and not any(self.is_number(t) for t in block[index - 1].texts)):
                     above = block[index - 1]
                 if above is not None:
                     used.add(index - 1)
@@ -300,6 +303,35 @@ class GridReader:
                                       "label": row.cells[0][1],
                                       "value": " | ".join(row.texts[1:])})
         return made, leftover
+
+    def join_wrapped_labels(self, block: list[_Row], left: int) -> None:
+        """A label wrapped over lines around its values ("Ständerwidersta" / values / "nd",
+        a ruled table centring the values vertically) becomes one label in the value row."""
+        i = 1
+        while i < len(block):
+            row, above = block[i], block[i - 1]
+            fragment = len(above.cells) == 1 and above.cells[0][0] == left
+            if (row.cells[0][0] > left and fragment and not self.is_number(above.cells[0][1])
+                    and any(self.is_number(t) for t in row.texts)):
+                label = above.cells[0][1]
+                below = block[i + 1] if i + 1 < len(block) else None
+                if (below is not None and len(below.cells) == 1 and below.cells[0][0] == left
+                        and not self.is_number(below.cells[0][1])):
+                    piece = below.cells[0][1]
+                    spaced, tight = f"{label} {piece}", label + piece
+                    if self.label(spaced) is not None:
+                        label = spaced
+                    elif self.label(tight) is not None or self.label(label) is None:
+                        label = tight if piece[:1].islower() and label[-1:].isalpha() \
+                            else spaced
+                    else:
+                        piece = ""
+                    if piece:
+                        del block[i + 1]
+                block[i] = _Row(row.index, [(left, label), *row.cells])
+                del block[i - 1]
+                continue
+            i += 1
 
     def _names_a_model(self, row: _Row) -> bool:
         first = row.cells[0][1]
@@ -502,6 +534,9 @@ class GridReader:
                                 if self.label(t) is not None and not self.is_number(t)
                                 and self._is_label_position(row, c)}
                                | {row.cells[0][0] for row in rows if len(row.cells) == 1})
+        # a symbol column right of a label column is no second table
+        label_columns = [c for k, c in enumerate(label_columns) if k == 0 or not all(
+            self.is_symbol_or_unit(t) for row in rows for col, t in row.cells if col == c)]
         groups: list[list[tuple[_Row, list[tuple[int, str]]]]] = []
         bounds = [*label_columns, 10**9]
         for k in range(len(label_columns)):
