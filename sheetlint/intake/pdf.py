@@ -414,6 +414,8 @@ def cell_value(vocab: Vocabulary, match: LabelMatch, value_text: str, unit_text:
         if quantity.rest:
             return None
         return _number_value(quantity.number), {}
+    if quantity.rest and re.search(r"\d", quantity.rest):
+        return None  # "249.6 A 1 800 rpm": two cells run together, not one value
     unit = quantity.unit or (quantity.rest or None)
     if unit is None and unit_text:
         unit = vocab.unit(unit_text) or unit_text.strip()

@@ -253,9 +253,10 @@ class GridReader:
                 header_rows = []
                 start = index
                 while (start > 0 and len(header_rows) < MAX_HEADER_ROWS
-                       and kinds[start - 1] in ("text", "units")
-                       and (len(block[start - 1].cells) >= 2
-                            or block[start - 1].cells[0][0] > left)):
+                       and ((kinds[start - 1] in ("text", "units")
+                            and (len(block[start - 1].cells) >= 2
+                                 or block[start - 1].cells[0][0] > left))
+                            or self._header_fragment(block, start - 1))):
                     start -= 1
                     header_rows.insert(0, block[start])
                 table_context = list(context)
@@ -332,6 +333,17 @@ class GridReader:
                 del block[i - 1]
                 continue
             i += 1
+
+    def _header_fragment(self, block: list[_Row], i: int) -> bool:
+        """A short word alone on its line next to a header line ("Type" above the header
+        names, "designation" below them): part of the header, not a title."""
+        row = block[i]
+        if len(row.cells) != 1 or len(row.cells[0][1]) > 20 or re.search(r"\d",
+                                                                         row.cells[0][1]):
+            return False
+        neighbours = [block[j] for j in (i - 1, i + 1) if 0 <= j < len(block)]
+        return any(len(n.cells) >= 2 and not any(self.is_number(t) for t in n.texts)
+                   for n in neighbours)
 
     def _names_a_model(self, row: _Row) -> bool:
         first = row.cells[0][1]
