@@ -362,3 +362,17 @@ def test_hostile_spreadsheets_in_a_folder_exit_2_name_the_file_and_spare_the_oth
     for name in ("empty.xlsx", "text.xlsx", "line.csv"):
         assert name in files[name]["error"]
     assert [r["id"] for r in files["good.csv"]["records"]] == ["NW-G 1 (invented)"]
+
+
+def test_group_header_row_and_a_header_cell_over_two_lines(tmp_path: Path) -> None:
+    """A row naming groups of columns above the header, and a quoted header cell with a
+    line break: the CSV's line of each value is its line in the file."""
+    path = tmp_path / "group.csv"
+    path.write_text(',Rated values,,,Winding\nType,Power [kW],Speed [rpm],Torque [Nm],'
+                    '"Resistance\n[ohm]"\nX1 (invented),15,1500,95.5,0.12\n', encoding="utf-8")
+    (record,) = extract_spreadsheet(path).records
+    assert record.data == {"id": "X1 (invented)",
+                           "rated": {"power": "15 kW", "speed": "1500 rpm",
+                                     "torque": "95.5 Nm"},
+                           "circuit": {"resistance": "0.12 ohm"}}
+    assert record.locations["circuit.resistance"] == {"line": 4, "cell": "E3"}

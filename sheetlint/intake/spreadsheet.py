@@ -148,10 +148,17 @@ def _read_csv(name: str, reader: GridReader) -> int:
                                f"{MAX_ROWS:,} for a datasheet table")
     delimiter = sniff_delimiter(lines[:50])
     csv.field_size_limit(MAX_LINE_CHARS)
-    rows = [row[:MAX_COLUMNS] for row in csv.reader(io.StringIO(text), delimiter=delimiter)]
+    rows: list[list[str]] = []
+    starts: list[int] = []  # the text line each row starts on (a quoted cell may span lines)
+    parsed = csv.reader(io.StringIO(text), delimiter=delimiter)
+    line = 0
+    for row in parsed:
+        starts.append(line + 1)
+        line = parsed.line_num
+        rows.append(row[:MAX_COLUMNS])
 
     def locate(row: int, column: int) -> dict[str, Any]:
-        return {"line": row + 1, "cell": f"{column_letter(column)}{row + 1}"}
+        return {"line": starts[row], "cell": f"{column_letter(column)}{row + 1}"}
 
     reader.read_grid(rows, locate, {"line": 1}, decimal_comma=_decimal_comma(rows))
     return 1
