@@ -28,7 +28,7 @@ from sheetlint.engine.core import SEVERITY_RANK, Settings
 from sheetlint.engine.run import RecordResult, check_record
 from sheetlint.intake.records import MAX_BYTES, InputProblem, RawRecord, load_records
 
-DATA_SUFFIXES = (".json", ".yaml", ".yml")
+DATA_SUFFIXES = (".json", ".yaml", ".yml", ".pdf", ".csv", ".xlsx")
 #: seconds allowed per file when the caller gives no limit
 DEFAULT_TIME_LIMIT = 30.0
 #: re-arm interval of the time-limit timer, in case the first interruption is swallowed by
@@ -176,8 +176,12 @@ def _reason(exc: BaseException) -> str:
 
 
 def raw_records(path: str, max_bytes: int | None = None) -> list[RawRecord]:
-    """The raw records of one file (JSON, YAML or PDF). Raises InputProblem."""
+    """The raw records of one file (JSON, YAML, PDF, CSV or XLSX). Raises InputProblem."""
     limit = max_bytes or MAX_BYTES
+    if path.lower().endswith((".csv", ".xlsx")):
+        from sheetlint.intake.pdf_records import spreadsheet_raw_records
+
+        return spreadsheet_raw_records(path, limit)
     if path.lower().endswith(".pdf"):
         try:
             size = os.path.getsize(path)
@@ -213,8 +217,12 @@ def check_file(path: str, settings: Settings | None = None, *,
 
 
 def _check_file(path: str, settings: Settings | None, max_bytes: int | None) -> FileResult:
+    from sheetlint.intake.pdf_records import NoMachineTable
+
     try:
         records = raw_records(path, max_bytes)
+    except NoMachineTable as exc:
+        return FileResult(path, skipped=str(exc))
     except InputProblem as exc:
         reason = foreign_yaml(path)
         if reason is not None:

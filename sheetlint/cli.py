@@ -88,8 +88,9 @@ def _add_rules(sub: Any) -> None:
 
 
 def _add_extract(sub: Any) -> None:
-    extract = sub.add_parser("extract", help="turn the machine tables of a PDF into records")
-    extract.add_argument("path", metavar="FILE.pdf", help="a PDF datasheet")
+    extract = sub.add_parser("extract", help="turn the machine tables of a PDF, CSV or XLSX "
+                                             "file into records")
+    extract.add_argument("path", metavar="FILE", help="a PDF, CSV or XLSX datasheet")
     extract.add_argument("--format", choices=("json", "yaml"), default="json",
                          help="format of the records (default: json)")
     extract.add_argument("-o", "--output", default=None, metavar="OUT",
@@ -331,11 +332,13 @@ def cmd_rules(args: argparse.Namespace) -> int:
 
 
 def cmd_extract(args: argparse.Namespace) -> int:
-    from sheetlint.intake.pdf import PdfError, dump_records, extract_pdf
+    from sheetlint.intake.pdf import dump_records, location_text
+    from sheetlint.intake.pdf_records import extract_document
+    from sheetlint.intake.records import InputProblem
 
     try:
-        extraction = extract_pdf(args.path)
-    except PdfError as exc:
+        extraction = extract_document(args.path)
+    except InputProblem as exc:
         print(f"sheetlint: {exc}", file=sys.stderr)
         return 2
     _write(dump_records(extraction, args.format), args.output)
@@ -343,7 +346,7 @@ def cmd_extract(args: argparse.Namespace) -> int:
         print(f"sheetlint: {args.path}: {note}", file=sys.stderr)
     if args.show_unmapped:
         for row in extraction.unmapped:
-            print(f"unmapped: {args.path} p.{row.get('page')}: {row.get('label')!s} = "
+            print(f"unmapped: {args.path} {location_text(row)}: {row.get('label')!s} = "
                   f"{row.get('value')!s}", file=sys.stderr)
     return 0 if extraction.records else 2
 

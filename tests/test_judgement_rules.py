@@ -165,3 +165,20 @@ def test_rated_torque_per_ampere_band_edges_spm():
         return [f for f in serious(run(data)) if f.rule == "emf-constant"]
     assert run_ti(0.85) == [] and run_ti(1.04) == []
     assert run_ti(0.70)
+
+
+def test_an_inductance_in_microhenry_labelled_millihenry_is_named():
+    # x_d = ω_e·L_d·I/(U/√3) = 2π·200 Hz·1.2 mH·52.0 A/(400 V/√3) = 0.34 per unit (usual);
+    # the same L written 1200 "mH" (µH labelled mH) gives 340 per unit: a warning naming L_d
+    # and L_q with the ×1000 reading (common practice band 0.1–1.5, approximate)
+    x_d = 2 * math.pi * 200 * 1.2e-3 * 52.0 / (400 / math.sqrt(3))
+    assert 0.1 < x_d < 1.5
+    data = {"id": "L (invented)", "machine": {"poles": 12},
+            "rated": {"frequency": "200 Hz", "speed": "2000 rpm", "current": "52.0 A",
+                      "voltage": "400 V"},
+            "circuit": {"ld": "1.200 mH", "lq": "1.200 mH"}}
+    assert [f for f in serious(run(data)) if f.rule == "reactance-band"] == []
+    data["circuit"] = {"ld": "1200 mH", "lq": "1200 mH"}
+    loud = [f for f in serious(run(data)) if f.rule == "reactance-band"]
+    assert loud and "circuit.ld and circuit.lq" in (loud[0].cause or "")
+    assert "µH" in loud[0].cause

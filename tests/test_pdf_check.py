@@ -30,8 +30,12 @@ def test_pdf_findings_carry_page_and_cell(tmp_path, capsys):
     assert located and all(loc["page"] == 1 and loc.get("cell") for loc in located)
 
 
-def test_image_only_pdf_is_an_unreadable_file_exit_2(capsys):
-    status = main(["check", str(PDF / "image_only.pdf")])
+def test_image_only_pdf_is_skipped_with_its_reason(capsys):
+    """DESIGN.md: a document with no machine table is listed as skipped, exit status
+    unchanged; a scan without a text layer holds none we can read."""
+    status = main(["check", "--format", "json", str(PDF / "image_only.pdf")])
     captured = capsys.readouterr()
-    assert status == 2
-    assert "image only" in captured.err and "Traceback" not in captured.err
+    assert status == 0
+    files = json.loads(captured.out)["files"]
+    assert "image only" in files[0]["skipped"] and files[0]["records"] == []
+    assert "Traceback" not in captured.err

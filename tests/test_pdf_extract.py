@@ -130,7 +130,20 @@ def test_dump_records_loads_back_to_the_same_records(fmt: str) -> None:
     extraction = extract_pdf(FIXTURES / "blower_motor_de.pdf")
     text = dump_records(extraction, fmt)
     loaded = json.loads(text) if fmt == "json" else yaml.safe_load(text)
-    assert loaded == {"records": [r.data for r in extraction.records]}
+    assert loaded["records"] == [r.data for r in extraction.records]
+
+
+def test_extract_writes_where_each_value_was_read() -> None:
+    """Issue 18: provenance beside each value (YAML comment, JSON "locations")."""
+    extraction = extract_pdf(FIXTURES / "blower_catalogue.pdf")
+    text = dump_records(extraction, "yaml")
+    power_lines = [line for line in text.splitlines() if line.strip().startswith("power:")]
+    assert len(power_lines) == len(extraction.records)
+    assert all("  # p." in line for line in power_lines)
+    assert "  # p.2: " in text and "  # p.3: " in text
+    document = json.loads(dump_records(extraction, "json"))
+    assert [loc["rated.power"]["page"] for loc in document["locations"]] == [
+        r.locations["rated.power"]["page"] for r in extraction.records]
 
 
 def test_dump_records_rejects_an_unknown_format() -> None:

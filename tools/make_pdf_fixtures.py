@@ -390,8 +390,15 @@ def blower_catalogue(pdf: Sheet) -> dict:
             pdf.prose(y, "Resistance per phase of the equivalent star circuit. Other ratings "
                          "on request.")
         for _, data in chunk:
-            # the maker is printed once, above the table on page 1
-            records.append({"data": data, "page": page_no, "field_pages": {"maker": 1}})
+            # the maker, pole count and voltage are printed once, above the table on page 1,
+            # and so are the coolant temperature and the duty type (in the prose)
+            data = {**data, "rated": {**data["rated"], "voltage": "400 V"},
+                    "machine": {**data.get("machine", {}), "poles": 6, "ambient": "40 °C",
+                                "duty": "S1"}}
+            once = ("maker", "rated.voltage", "machine.poles", "machine.ambient",
+                    "machine.duty")
+            records.append({"data": data, "page": page_no,
+                            "field_pages": {path: 1 for path in once}})
     return {"records": records, "unmapped_labels": [], "notes_contain": []}
 
 
@@ -434,7 +441,7 @@ def pump_two_tables(pdf: Sheet) -> dict:
     pdf.prose(y, "Page 1 of 1")
     data = {
         "id": "KS-P 200-6", "maker": MAKER_KS,
-        "machine": {"poles": 6, "connection": "star"},
+        "machine": {"poles": 6, "connection": "star", "ambient": "40 °C"},  # from the prose
         "rated": {"power": "30 kW", "speed": "1000 rpm", "torque": f"{v['torque']} N·m",
                   "frequency": "50 Hz", "voltage": "400 V", "current": f"{v['curr']} A",
                   "power_factor": v["pf"], "efficiency": f"{v['eta']} %",

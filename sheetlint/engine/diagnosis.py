@@ -38,7 +38,7 @@ NOT_DIAGNOSED = frozenset({"value-range", "unknown-field", "duplicate-key", "sta
 #: consequences of an explanation)
 EVIDENCE = frozenset({"power-torque-speed", "synchronous-speed", "pole-count", "electrical-power",
                       "loss-balance", "emf-constant", "voltage-margin", "dq-operating-point",
-                      "resistance-drop", "servo-constants"})
+                      "resistance-drop", "servo-constants", "reactance-band"})
 #: safety findings stay on their own even when a slip would explain them: if the reading is
 #: wrong, the hazard is real (DESIGN.md, Judgement 4: safety checks on the unsafe end)
 SAFETY = frozenset({"overspeed-emf", "short-circuit-current"})

@@ -1,19 +1,21 @@
 """PDF intake: machine data from the tables of vendor datasheets.
 
-``extract_pdf`` reads the text layer of a PDF (pdfplumber words with positions; no OCR) and
-turns its tables into raw records of the input schema (DESIGN.md, "Data contract"). Every
-value keeps the page and the row text it came from; rows whose label is not known go to
-``unmapped``. Two layouts are recognised, in any mix, ruled or not:
+``extract_pdf`` reads the text layer of a PDF (pdfplumber words with positions; no OCR).
+Each page becomes a grid: words are grouped into lines and cells (:mod:`pdf_layout`), lines
+into blocks set apart by vertical space, and the cells of a block into the columns its rows
+share. The grid goes through the table reader that spreadsheets use
+(:mod:`sheetlint.intake.spreadsheet_grid`): one machine per row or per column, several
+tables per page, tables continued over pages with or without their header, one machine
+per page, records side by side, unit columns, units before values, symbol headers, section
+rows, footnote marks, ``Label: value`` lines, and values common to a table taken from its
+title or notes. Every value keeps its page and cell; what cannot be mapped goes to
+``unmapped``.
 
-* label / value rows: ``Rated power | 75 | kW``, ``Rated power [kW] | 75``,
-  ``Rated power | 75 kW``, also several pairs per line and ``Label: value`` lines;
-* catalogue tables: one machine per row under a header of one or more lines (units in the
-  header, a line of their own or the cells); a table continued on the next page with a
-  repeated header or none reuses the columns of the last header.
-
-Labels and units come from ``data/pdf_labels.yaml`` (English and German). Hostile files
-(encrypted, truncated, empty, not a PDF, too many or too large pages, too slow) raise
-:class:`PdfError` with a message naming the file, and nothing else escapes.
+This module also holds what both readers share: the label vocabulary
+(``data/pdf_labels.yaml``, English and German), number and unit reading, and the value of
+one cell. Hostile files (encrypted, truncated, empty, not a PDF, too many or too large
+pages, too slow) raise :class:`PdfError` with a message naming the file, and nothing else
+escapes.
 """
 
 from __future__ import annotations
@@ -32,8 +34,6 @@ import yaml
 
 from sheetlint.fields import ATTRIBUTE_FIELDS, FIELDS
 from sheetlint.intake.pdf_layout import (
-    Cell,
-    Column,
     Line,
     best_column,
     find_columns,
@@ -48,6 +48,10 @@ MAX_PAGE_SIDE_PT = 14_400.0
 
 class PdfError(Exception):
     """A PDF that cannot be read; the message names the file and what is wrong."""
+
+
+class PdfNoText(PdfError):
+    """A PDF without a text layer (scanned): nothing to read without OCR."""
 
 
 @dataclass
@@ -289,18 +293,53 @@ def normalise_number(text: str, decimal_comma: bool | None) -> str | None:
     return sign + text.replace(mark, ".")
 
 
+FOOTNOTE_MARK = re.compile(r"(?:(?<=[\d%)\s])[\u00b9\u00b2\u00b3\u2070-\u2079]+|\s*[*†‡]+|"
+                           r"\s+\(\d\)|\s+\[\d\]|\s+[a-d1-9]\))$")
+UNIT_FIRST = re.compile(r"^(\S+(?:\s\S+)?)\s+([-+−]?\d.*)$")
+
+
+@functools.lru_cache(maxsize=16384)
+def strip_footnote(text: str) -> str:
+    """``'95.1¹'``, ``'95.1 *'``, ``'95.1 1)'`` -> ``'95.1'`` (a footnote mark on a value)."""
+    text = text.strip()
+    for _ in range(2):
+        stripped = FOOTNOTE_MARK.sub("", text).rstrip()
+        if stripped == text or not stripped:
+            break
+        text = stripped
+    return text
+
+
+@functools.lru_cache(maxsize=16384)
 def parse_quantity(text: str, decimal_comma: bool | None) -> Quantity | None:
-    """Split a cell like ``'1 500 min-1'`` into number and unit; None if it starts with none."""
+    """Split a cell like ``'1 500 min-1'`` into number and unit; None if it starts with none.
+
+    A unit written before the number (``'kW 75'``) is read as well.
+    """
     found = NUMBER_START.match(text.strip())
     if not found:
-        return None
+        first = UNIT_FIRST.match(text.strip())
+        if first is None or vocabulary().unit(first.group(1)) is None:
+            return None
+        inner = parse_quantity(first.group(2), decimal_comma)
+        if inner is None or inner.unit or inner.rest:
+            return None
+        return Quantity(inner.number, vocabulary().unit(first.group(1)), "")
     raw = found.group(1).rstrip(" \u2009\u202f\u00a0'’.,")
-    rest = text.strip()[found.start(1) + len(raw):].strip()
     number = normalise_number(raw, decimal_comma)
+    backed_off = number is None
+    while number is None and re.search(r"[ \u2009\u202f\u00a0]", raw):
+        # the last group may start the unit: "1 500 1/min" is 1500 in 1/min
+        raw = re.split(r"[ \u2009\u202f\u00a0](?=[^ \u2009\u202f\u00a0]*$)", raw)[0]
+        number = normalise_number(raw.rstrip(" '’.,"), decimal_comma)
+        if number is not None:
+            raw = raw.rstrip(" '’.,")
     if number is None:
-        # a trailing group may belong to the unit ("2 p" is not a number) -> fail clearly
         return None
+    rest = text.strip()[found.start(1) + len(raw):].strip()
     unit = vocabulary().unit(rest) if rest else None
+    if backed_off and unit is None:
+        return None  # "12 3" is no number; only a unit may follow the groups
     return Quantity(number, unit, "" if unit else rest)
 
 
@@ -322,357 +361,73 @@ def _number_value(number: str) -> int | float:
     return float(number) if "." in number else int(number)
 
 
-# --------------------------------------------------------------------------- records
+def qualifiers_for(path: str, kind: str, stated: dict[str, str]
+                   ) -> tuple[dict[str, str], dict[str, str]]:
+    """Qualifiers of the object form and extra fields from what the label states."""
+    qualifiers: dict[str, str] = {}
+    extra: dict[str, str] = {}
+    line = "line" in stated
+    phase = "phase" in stated
+    peak = "peak" in stated
+    if kind in ("voltage", "emf_constant") and line != phase:
+        qualifiers["basis"] = ("line" if line else "phase") + ("_peak" if peak else "_rms")
+    elif kind in ("current", "torque_constant") and (peak or "rms" in stated):
+        qualifiers["basis"] = "peak" if peak else "rms"
+    elif kind == "resistance":
+        bases = [b for b in ("line", "phase", "delta_branch") if b in stated]
+        if len(bases) == 1:
+            qualifiers["basis"] = bases[0]
+    elif kind == "inductance" and line != phase:
+        qualifiers["basis"] = "line" if line else "phase"
+    temperature = stated.get("temperature")
+    if temperature and kind not in ("temperature", "temperature_difference"):
+        if kind == "resistance":
+            qualifiers["temperature"] = temperature
+        elif kind == "torque_constant":
+            qualifiers["magnet_temperature"] = temperature
+        elif path.startswith("emf."):
+            extra["emf.magnet_temperature"] = temperature
+    if "duration" in stated and path in ("limits.peak_torque", "limits.peak_current"):
+        qualifiers["duration"] = stated["duration"]
+    return qualifiers, extra
 
 
-@dataclass
-class _Builder:
-    """A record being filled, with locations."""
+def cell_value(vocab: Vocabulary, match: LabelMatch, value_text: str, unit_text: str | None,
+               column_unit: str | None, decimal_comma: bool | None
+               ) -> tuple[Any, dict[str, str]] | None:
+    """The raw record value for ``match`` from a value cell, or None if it is not one.
 
-    data: dict[str, Any] = field(default_factory=dict)
-    locations: dict[str, dict[str, Any]] = field(default_factory=dict)
-    first_page: int = 0
-
-    def get(self, path: str) -> Any:
-        node: Any = self.data
-        for part in path.split("."):
-            if not isinstance(node, dict) or part not in node:
-                return None
-            node = node[part]
-        return node
-
-    def set(self, path: str, value: Any, page: int, cell: str) -> bool:
-        parts = path.split(".")
-        node = self.data
-        for part in parts[:-1]:
-            child = node.setdefault(part, {})
-            if not isinstance(child, dict):
-                return False
-            node = child
-        if isinstance(node.get(parts[-1]), dict) and not isinstance(value, dict):
-            return False
-        node[parts[-1]] = value
-        self.locations[path] = {"page": page, "cell": cell}
-        if not self.first_page:
-            self.first_page = page
-        return True
-
-    @property
-    def has_physical(self) -> bool:
-        return any(path in FIELDS for path in self.locations)
-
-
-@dataclass
-class _CatalogueSpec:
-    """Columns of the last catalogue header: extents, labels, matches and units."""
-
-    columns: list[Column]
-    labels: list[str]
-    matches: list[LabelMatch | None]
-    units: list[str | None]
-
-
-class _Reader:
-    """Turns the lines of successive pages into records."""
-
-    def __init__(self, path: str) -> None:
-        self.vocab = vocabulary()
-        self.path = path
-        self.stem = Path(path).stem
-        self.finished: list[_Builder] = []
-        self.catalogue_records: list[_Builder] = []
-        self.current = _Builder()
-        self.unmapped: list[dict[str, Any]] = []
-        self.notes: list[str] = []
-        self.catalogue: _CatalogueSpec | None = None
-        self.decimal_comma: bool | None = None
-
-    # ---- values
-
-    def value_for(self, match: LabelMatch, value_text: str, unit_text: str | None,
-                  column_unit: str | None = None) -> tuple[Any, dict[str, str]] | None:
-        """The raw record value for ``match`` from a value cell, or None if it is not one.
-
-        Returns the value and extra fields implied by the label (emf.magnet_temperature).
-        """
-        path = match.path
-        if path in ATTRIBUTE_FIELDS:
-            text = " ".join([value_text, unit_text or ""]).strip()
-            return (self.vocab.attribute(path, text) if path not in ("id", "maker") else text), {}
-        spec = FIELDS.get(path)
-        quantity = parse_quantity(value_text, self.decimal_comma)
-        if quantity is None or spec is None:
+    ``unit_text`` is a unit cell beside the value, ``column_unit`` the unit of the column or
+    row header. Returns the value and extra fields implied by the label
+    (``emf.magnet_temperature`` from "Ke at 20 °C").
+    """
+    path = match.path
+    value_text = strip_footnote(value_text)
+    if path in ATTRIBUTE_FIELDS:
+        text = " ".join([value_text, unit_text or ""]).strip()
+        return (vocab.attribute(path, text) if path not in ("id", "maker") else text), {}
+    spec = FIELDS.get(path)
+    quantity = parse_quantity(value_text, decimal_comma)
+    if quantity is None or spec is None:
+        return None
+    if spec.kind == "count":
+        if quantity.rest:
             return None
-        if spec.kind == "count":
-            if quantity.rest:
-                return None
-            return _number_value(quantity.number), {}
-        unit = quantity.unit or (quantity.rest or None)
-        if unit is None and unit_text:
-            unit = self.vocab.unit(unit_text) or unit_text.strip()
-        unit = unit or match.unit or column_unit
-        qualifiers, extra = self.qualifiers_for(path, spec.kind, match.qualifiers)
-        if qualifiers:
-            value: Any = {"value": _number_value(quantity.number)}
-            if unit:
-                value["unit"] = unit
-            value.update(qualifiers)
-            return value, extra
-        return (f"{quantity.number} {unit}" if unit else quantity.number), extra
-
-    @staticmethod
-    def qualifiers_for(path: str, kind: str, stated: dict[str, str]
-                       ) -> tuple[dict[str, str], dict[str, str]]:
-        """Qualifiers of the object form and extra fields from what the label states."""
-        qualifiers: dict[str, str] = {}
-        extra: dict[str, str] = {}
-        line = "line" in stated
-        phase = "phase" in stated
-        peak = "peak" in stated
-        if kind in ("voltage", "emf_constant") and line != phase:
-            qualifiers["basis"] = ("line" if line else "phase") + ("_peak" if peak else "_rms")
-        elif kind in ("current", "torque_constant") and (peak or "rms" in stated):
-            qualifiers["basis"] = "peak" if peak else "rms"
-        elif kind == "resistance":
-            bases = [b for b in ("line", "phase", "delta_branch") if b in stated]
-            if len(bases) == 1:
-                qualifiers["basis"] = bases[0]
-        elif kind == "inductance" and line != phase:
-            qualifiers["basis"] = "line" if line else "phase"
-        temperature = stated.get("temperature")
-        if temperature and kind not in ("temperature", "temperature_difference"):
-            if kind == "resistance":
-                qualifiers["temperature"] = temperature
-            elif kind == "torque_constant":
-                qualifiers["magnet_temperature"] = temperature
-            elif path.startswith("emf."):
-                extra["emf.magnet_temperature"] = temperature
-        if "duration" in stated and path in ("limits.peak_torque", "limits.peak_current"):
-            qualifiers["duration"] = stated["duration"]
-        return qualifiers, extra
-
-    def put(self, builder: _Builder, path: str, value: Any, page: int, cell: str,
-            label: str) -> None:
-        """Set ``path`` unless it already holds another value (that one goes to unmapped)."""
-        existing = builder.get(path)
-        if existing is not None:
-            if existing != value:
-                self.unmapped.append({"page": page, "label": label, "value": cell,
-                                      "reason": f"second value for {path}"})
-            return
-        if not builder.set(path, value, page, cell):
-            self.unmapped.append({"page": page, "label": label, "value": cell,
-                                  "reason": f"conflicts with the structure of {path}"})
-
-    # ---- label / value rows
-
-    def label_value(self, page: int, label: str, value_text: str, unit_text: str | None,
-                    row_text: str) -> None:
-        match = self.vocab.match_label(label)
-        if match is None:
-            if _squash(label) in self.vocab.headings:
-                return
-            value = " ".join(part for part in (value_text, unit_text or "") if part)
-            self.unmapped.append({"page": page, "label": label, "value": value})
-            return
-        if match.path == "id" and self.current.get("id") is not None:
-            self.finished.append(self.current)
-            self.current = _Builder()
-        result = self.value_for(match, value_text, unit_text)
-        if result is None:
-            self.unmapped.append({"page": page, "label": label, "value": value_text,
-                                  "reason": f"not a value for {match.path}"})
-            return
-        value, extra = result
-        self.put(self.current, match.path, value, page, row_text, label)
-        for path, extra_value in extra.items():
-            self.put(self.current, path, extra_value, page, row_text, label)
-
-    def read_pairs(self, page: int, line: Line) -> None:
-        """Walk a line of label / value [/ unit] cells, several pairs per line allowed."""
-        cells = line.cells
-        if all(_squash(c.text) in self.vocab.headings for c in cells):
-            return
-        index = 0
-        while index < len(cells):
-            label = cells[index]
-            if self.is_number(label):
-                self.unmapped.append({"page": page, "label": "", "value": label.text})
-                index += 1
-                continue
-            value_index = index + 1
-            if (value_index + 1 < len(cells) and not self.is_number(cells[value_index])
-                    and self.is_number(cells[value_index + 1])
-                    and len(cells[value_index].text) <= 6
-                    and self.vocab.match_label(cells[value_index].text) is None):
-                value_index += 1  # a symbol column between label and value
-            if value_index >= len(cells):
-                if len(cells) > 1 and self.vocab.match_label(label.text) is not None:
-                    self.unmapped.append({"page": page, "label": label.text, "value": ""})
-                break
-            value = cells[value_index]
-            unit: Cell | None = None
-            if value_index + 1 < len(cells) and self.is_unit(cells[value_index + 1], cells,
-                                                               value_index + 1):
-                unit = cells[value_index + 1]
-            end = value_index + (2 if unit else 1)
-            row_text = " | ".join(c.text for c in cells[index:end])
-            self.label_value(page, label.text, value.text, unit.text if unit else None,
-                             row_text)
-            index = end
-
-    def is_number(self, cell: Cell) -> bool:
-        quantity = parse_quantity(cell.text, self.decimal_comma)
-        return quantity is not None and not quantity.rest
-
-    def is_unit(self, cell: Cell, cells: list[Cell], index: int) -> bool:
-        if self.vocab.unit(cell.text) is not None:
-            return True
-        # a unit we do not know, as written, in the last column of a label/value/unit row
-        return (index == len(cells) - 1 and len(cells) == 3 and len(cell.text) <= 10
-                and not cell.text[:1].isdigit() and self.vocab.match_label(cell.text) is None)
-
-    def colon_line(self, page: int, line: Line) -> None:
-        found = re.match(r"^([^:]{2,40}):\s*(\S.*)$", line.cells[0].text)
-        if found and self.vocab.match_label(found.group(1)) is not None:
-            self.label_value(page, found.group(1), found.group(2), None, line.cells[0].text)
-
-    # ---- catalogue tables
-
-    def is_data_row(self, line: Line) -> bool:
-        numbers = sum(1 for c in line.cells if self.is_number(c))
-        if numbers < 3 or numbers * 2 < len(line.cells):
-            return False
-        return not any(self.vocab.match_label(c.text) is not None
-                       for c in line.cells if not self.is_number(c))
-
-    def header_spec(self, header: list[Line], rows: list[Line]) -> _CatalogueSpec:
-        columns = find_columns(rows)
-        for line in header:
-            texts: dict[int, list[str]] = {}
-            for cell in line.cells:
-                for piece in split_at_gutters(cell, columns):
-                    texts.setdefault(best_column(piece, columns), []).append(piece.text)
-            for index, column in enumerate(columns):
-                column.header.append(" ".join(texts.get(index, [])))
-        labels, matches, units = [], [], []
-        for column in columns:
-            unit = None
-            words = []
-            for text in column.header:
-                if text and unit is None and self.vocab.unit(text) is not None:
-                    unit = self.vocab.unit(text)
-                elif text:
-                    words.append(text)
-            label = " ".join(words)
-            match = self.vocab.match_label(label) if label else None
-            labels.append(label + (f" [{unit}]" if unit else ""))
-            matches.append(match)
-            units.append(unit or (match.unit if match else None))
-        return _CatalogueSpec(columns, labels, matches, units)
-
-    def read_catalogue_rows(self, page: int, rows: list[Line], spec: _CatalogueSpec) -> None:
-        for row in rows:
-            builder = _Builder()
-            row_name = row.cells[0].text
-            for cell in row.cells:
-                index = best_column(cell, spec.columns)
-                match, label = spec.matches[index], spec.labels[index]
-                location = f"{row_name} | {label}: {cell.text}"
-                if match is None:
-                    self.unmapped.append({"page": page, "label": label or "(no header)",
-                                          "value": cell.text, "row": row_name})
-                    continue
-                result = self.value_for(match, cell.text, None, spec.units[index])
-                if result is None:
-                    self.unmapped.append({"page": page, "label": label, "value": cell.text,
-                                          "row": row_name,
-                                          "reason": f"not a value for {match.path}"})
-                    continue
-                value, extra = result
-                self.put(builder, match.path, value, page, location, label)
-                for path, extra_value in extra.items():
-                    self.put(builder, path, extra_value, page, location, label)
-            self.catalogue_records.append(builder)
-
-    # ---- a page
-
-    def read_page(self, page: int, lines: list[Line]) -> None:
-        self.decimal_comma = page_decimal_comma(lines)
-        used: set[int] = set()
-        data_rows = [i for i, line in enumerate(lines) if self.is_data_row(line)]
-        blocks: list[list[int]] = []
-        for i in data_rows:
-            if blocks and blocks[-1][-1] == i - 1:
-                blocks[-1].append(i)
-            else:
-                blocks.append([i])
-        for block in blocks:
-            header: list[int] = []
-            below = block[0]
-            for j in range(block[0] - 1, max(block[0] - 4, -1), -1):
-                line = lines[j]
-                gap = lines[below].top - line.bottom
-                if (j in used or len(line.cells) < 2 or gap > 2.2 * max(line.height, 1.0)
-                        or any(self.is_number(c) for c in line.cells)):
-                    break
-                header.insert(0, j)
-                below = j
-            rows = [lines[i] for i in block]
-            if header:
-                self.catalogue = self.header_spec([lines[j] for j in header], rows)
-            elif self.catalogue is None:
-                self.notes.append(f"page {page}: a table of {len(rows)} rows has no header "
-                                  "and follows none; its rows are listed as unmapped")
-                for row in rows:
-                    self.unmapped.append({"page": page, "label": "(no header)",
-                                          "value": row.text})
-                used.update(block)
-                continue
-            self.read_catalogue_rows(page, rows, self.catalogue)
-            used.update(block)
-            used.update(header)
-        for i, line in enumerate(lines):
-            if i in used:
-                continue
-            if len(line.cells) == 1:
-                self.colon_line(page, line)
-            else:
-                self.read_pairs(page, line)
-
-    # ---- the end
-
-    def finish(self) -> list[PdfRecord]:
-        label_value = [b for b in (*self.finished, self.current) if b.locations]
-        context = [b for b in label_value if b.get("id") is None and not b.has_physical]
-        machines = [b for b in label_value if b not in context]
-        records = machines + self.catalogue_records
-        for source in context:
-            if not records:
-                for path, where in source.locations.items():
-                    self.unmapped.append({"page": where["page"], "label": path,
-                                          "value": where["cell"],
-                                          "reason": "no machine on the sheet to apply it to"})
-                continue
-            for record in records:
-                for path, where in source.locations.items():
-                    if record.get(path) is None:
-                        record.set(path, source.get(path), where["page"], where["cell"])
-        makers = {r.get("maker") for r in records if r.get("maker") is not None}
-        if len(makers) == 1:
-            maker = makers.pop()
-            where = next(r.locations["maker"] for r in records if r.get("maker") is not None)
-            for record in records:
-                if record.get("maker") is None:
-                    record.set("maker", maker, where["page"], where["cell"])
-        result = []
-        for number, record in enumerate(records, start=1):
-            if record.get("id") is None:
-                record.data = {"id": f"{self.stem}#{number}", **record.data}
-                self.notes.append(f"record {number} (page {record.first_page}) names no model; "
-                                  f"its id is set to '{self.stem}#{number}'")
-            result.append(PdfRecord(record.data, record.locations))
-        return result
+        return _number_value(quantity.number), {}
+    if quantity.rest and re.search(r"\d", quantity.rest):
+        return None  # "249.6 A 1 800 rpm": two cells run together, not one value
+    unit = quantity.unit or (quantity.rest or None)
+    if unit is None and unit_text:
+        unit = vocab.unit(unit_text) or unit_text.strip()
+    unit = unit or match.unit or column_unit
+    qualifiers, extra = qualifiers_for(path, spec.kind, match.qualifiers)
+    if qualifiers:
+        value: Any = {"value": _number_value(quantity.number)}
+        if unit:
+            value["unit"] = unit
+        value.update(qualifiers)
+        return value, extra
+    return (f"{quantity.number} {unit}" if unit else quantity.number), extra
 
 
 # --------------------------------------------------------------------------- the file
@@ -753,10 +508,60 @@ def _describe(path: str, exc: BaseException) -> PdfError:
     return _fail(path, f"cannot be read as a PDF ({kind}: {exc})")
 
 
+@functools.lru_cache(maxsize=16384)
+def _plain_number(text: str) -> bool:
+    quantity = parse_quantity(strip_footnote(text), None)
+    return quantity is not None and not quantity.rest
+
+
+#: a vertical gap between two lines wider than this many line heights separates blocks
+BLOCK_GAP_LINES = 1.2
+
+
+def page_grid(lines: list[Line]) -> tuple[list[list[str]], list[str]]:
+    """The lines of a page as grid rows: blocks of lines set apart by an empty row, each
+    block's cells placed in the columns its rows share. Returns rows and the row names
+    (first cell of each row) for locations."""
+
+    rows: list[list[str]] = []
+    blocks: list[list[Line]] = []
+    for line in lines:
+        if blocks and line.top - blocks[-1][-1].bottom <= BLOCK_GAP_LINES * max(
+                blocks[-1][-1].height, line.height, 1.0):
+            blocks[-1].append(line)
+        else:
+            blocks.append([line])
+    for block in blocks:
+        if rows:
+            rows.append([])
+        multi = [line for line in block if len(line.cells) >= 2]
+        numeric = [line for line in multi
+                   if sum(1 for cell in line.cells if _plain_number(cell.text)) >= 2]
+        basis = numeric if len(numeric) >= 2 else multi
+        columns = find_columns(basis) if basis else []
+        span = (columns[-1].x1 - columns[0].x0) if columns else 0.0
+        for line in block:
+            if not columns or (len(line.cells) == 1 and (
+                    line.cells[0].x1 - line.cells[0].x0 > span / 3
+                    or line.cells[0].x0 <= columns[0].x1)):
+                rows.append([line.cells[0].text] if len(line.cells) == 1 else
+                            [cell.text for cell in line.cells])
+                continue
+            row: list[str] = [""] * len(columns)
+            for cell in line.cells:
+                for piece in split_at_gutters(cell, columns):
+                    index = best_column(piece, columns)
+                    row[index] = f"{row[index]} {piece.text}".strip()
+            rows.append(row)
+    return rows, [next((t for t in row if t), "") for row in rows]
+
+
 def _extract(path: str, max_pages: int, time_limit: float, started: float) -> PdfExtraction:
     import pdfplumber
 
-    reader = _Reader(path)
+    from sheetlint.intake.spreadsheet_grid import GridReader
+
+    reader = GridReader(Path(path).stem)
     with pdfplumber.open(path) as pdf:
         count = _page_count(pdf)
         if count is not None and count > max_pages:
@@ -783,23 +588,85 @@ def _extract(path: str, max_pages: int, time_limit: float, started: float) -> Pd
                 continue
             text_pages += 1
             lines = group_lines(words, vertical_rules(page))
-            reader.read_page(number, lines)
+            rows, names = page_grid(lines)
+
+            def locate(row: int, column: int, rows: list[list[str]] = rows,
+                       names: list[str] = names, number: int = number) -> dict[str, Any]:
+                texts = [t for t in rows[row] if t]
+                if len(texts) <= 4:
+                    return {"page": number, "cell": " | ".join(texts)}
+                text = rows[row][column] if column < len(rows[row]) else ""
+                first = names[row]
+                return {"page": number,
+                        "cell": text if not first or first == text else f"{first} | {text}"}
+
+            reader.read_grid(rows, locate, {"page": number}, page_decimal_comma(lines))
             page.close()
         if text_pages == 0:
-            raise _fail(path, f"has no text layer on any of its {len(pages)} pages (image "
-                              "only; OCR is not supported)")
-        records = reader.finish()
-        if not records:
-            reader.notes.append("no machine data found")
-        return PdfExtraction(path, records, reader.unmapped, reader.notes, len(pages))
+            raise PdfNoText(f"{path}: has no text layer on any of its {len(pages)} pages "
+                            "(image only; OCR is not supported)")
+        found = [PdfRecord(r.data, r.locations) for r in reader.finish(Path(path).stem)]
+        notes, unmapped = reader.notes, reader.unmapped
+        if not found:
+            notes.append("no machine data found")
+        return PdfExtraction(path, found, unmapped, notes, len(pages))
 
 
-def dump_records(extraction: PdfExtraction, fmt: str) -> str:
-    """The records as ``{"records": [...]}`` in ``fmt`` ``'json'`` or ``'yaml'``."""
-    document = {"records": [record.data for record in extraction.records]}
+def location_text(location: dict[str, Any] | None) -> str:
+    """Where a value was read, for people: ``p.2: Rated power | 75 | kW``, ``Catalogue!D7``,
+    ``line 7, cell D7``."""
+    if not location:
+        return ""
+    if "page" in location:
+        cell = location.get("cell")
+        return f"p.{location['page']}" + (f": {cell}" if cell else "")
+    if "sheet" in location:
+        return f"{location['sheet']}!{location.get('cell', '')}"
+    if "line" in location:
+        cell = location.get("cell")
+        return f"line {location['line']}" + (f", cell {cell}" if cell else "")
+    return ""
+
+
+def dump_records(extraction: Any, fmt: str) -> str:
+    """The records as ``{"records": [...]}`` in ``fmt`` ``'json'`` or ``'yaml'``, with where
+    each value was read: YAML as a comment beside the value, JSON as ``"locations"`` (one
+    mapping of field path to location per record) beside ``"records"``, which the intake
+    of JSON files ignores."""
+    records = [record.data for record in extraction.records]
     if fmt == "json":
+        document = {"records": records,
+                    "locations": [record.locations for record in extraction.records]}
         return json.dumps(document, indent=2, ensure_ascii=False) + "\n"
     if fmt == "yaml":
-        header = f"# records read from {extraction.path}\n"
-        return header + yaml.safe_dump(document, allow_unicode=True, sort_keys=False)
+        lines = [f"# records read from {extraction.path}; beside each value: where it was "
+                 "read", "records:"]
+        for record in extraction.records:
+            body = _yaml_mapping(record.data, record.locations, "", 1)
+            body[0] = "- " + body[0][2:]
+            lines.extend(body)
+        return "\n".join(lines) + "\n"
     raise ValueError(f"unknown format {fmt!r}: use 'json' or 'yaml'")
+
+
+def _yaml_mapping(data: dict[str, Any], locations: dict[str, dict[str, Any]], prefix: str,
+                  depth: int) -> list[str]:
+    pad = "  " * depth
+    lines = []
+    for key, value in data.items():
+        path = f"{prefix}{key}"
+        name = _yaml_flow(key)
+        if isinstance(value, dict) and "value" not in value:
+            lines.append(f"{pad}{name}:")
+            lines.extend(_yaml_mapping(value, locations, path + ".", depth + 1))
+            continue
+        where = location_text(locations.get(path)).replace("\n", " ")
+        lines.append(f"{pad}{name}: {_yaml_flow(value)}" + (f"  # {where}" if where else ""))
+    return lines
+
+
+def _yaml_flow(value: Any) -> str:
+    """One value in YAML flow style, quoted where YAML needs it."""
+    text = yaml.safe_dump([value], allow_unicode=True, default_flow_style=True, sort_keys=False,
+                          width=1_000_000).strip()
+    return text[1:-1]

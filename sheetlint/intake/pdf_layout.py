@@ -153,6 +153,8 @@ def split_at_gutters(cell: Cell, columns: Sequence[Column]) -> list[Cell]:
     covered = [i for i, c in enumerate(columns) if min(cell.x1, c.x1) > max(cell.x0, c.x0)]
     if len(covered) < 2 or len(cell.words) < 2:
         return [cell]
+    if len(covered) <= len(cell.words) <= 12 and len(covered) <= 6:
+        return _pieces(cell, _cuts_by_alignment(cell, [columns[i] for i in covered]))
     cuts: list[int] = []
     for left, right in itertools.pairwise(covered):
         gutter0, gutter1 = columns[left].x1, columns[right].x0
@@ -163,9 +165,33 @@ def split_at_gutters(cell: Cell, columns: Sequence[Column]) -> list[Cell]:
                 best, best_gap = k + 1, gap1 - gap0
         if best > 0 and best not in cuts:
             cuts.append(best)
+    return _pieces(cell, sorted(cuts))
+
+
+def _cuts_by_alignment(cell: Cell, columns: Sequence[Column]) -> list[int]:
+    """Cut positions that give each column a piece lined up with it: the least sum over
+    pieces of the distance from the piece to its column (left edges, right edges or
+    centres, whichever fits, since headers are aligned like their columns or not)."""
+    words = cell.words
+    best: tuple[float, tuple[int, ...]] | None = None
+    for cuts in itertools.combinations(range(1, len(words)), len(columns) - 1):
+        bounds = (0, *cuts, len(words))
+        cost = 0.0
+        for k, column in enumerate(columns):
+            x0, x1 = words[bounds[k]][1], words[bounds[k + 1] - 1][2]
+            cost += min(abs(x0 - column.x0), abs(x1 - column.x1),
+                        abs((x0 + x1) / 2 - (column.x0 + column.x1) / 2))
+            if x0 >= column.x1 + 2 or x1 <= column.x0 - 2:  # a piece wholly beside it
+                cost += 1000.0
+        if best is None or cost < best[0]:
+            best = (cost, cuts)
+    return list(best[1]) if best else []
+
+
+def _pieces(cell: Cell, cuts: list[int]) -> list[Cell]:
     pieces: list[Cell] = []
     start = 0
-    for cut in [*sorted(cuts), len(cell.words)]:
+    for cut in [*cuts, len(cell.words)]:
         chunk = cell.words[start:cut]
         if chunk:
             pieces.append(Cell(" ".join(w[0] for w in chunk), chunk[0][1], chunk[-1][2],

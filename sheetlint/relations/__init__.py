@@ -7,6 +7,7 @@ from sheetlint.relations import (  # noqa: F401
     emf,
     machine,
     mechanics,
+    reactance,
     servo,
     standards,
     torque,

@@ -509,6 +509,8 @@ def _location_text(name: str, location: dict[str, Any] | None) -> str:
         if location.get("cell"):
             text += f" ({location['cell']})"
         return text
+    if "sheet" in location:
+        return f"{name} {location['sheet']}!{location.get('cell', '')}"
     return ""
 
 

@@ -105,14 +105,16 @@ def _location(f: FileResult, record_id: str | None, where: dict[str, Any] | None
         line = where.get("line")
         if isinstance(line, int) and line >= 1:
             physical["region"] = {"startLine": line}
-        if "page" in where:
-            text = f"page {where['page']}"
+        if "page" in where or "sheet" in where or "cell" in where:
+            text = (f"page {where['page']}" if "page" in where else
+                    f"sheet '{where['sheet']}'" if "sheet" in where else f"line {line}")
             if where.get("cell"):
                 text += f", cell '{where['cell']}'"
             location["message"] = {"text": text}
             logical.append({"name": text, "kind": "element",
                             "fullyQualifiedName": f"{record_id or ''}/{text}".lstrip("/")})
-            location["properties"] = {k: where[k] for k in ("page", "cell") if k in where}
+            location["properties"] = {k: where[k] for k in ("page", "sheet", "cell")
+                                      if k in where}
     for name in fields[:1]:
         logical.append({"name": name, "kind": "property",
                         "fullyQualifiedName": f"{record_id}.{name}" if record_id else name})

@@ -101,6 +101,8 @@ def _finding(x: Finding) -> list[str]:
             where = f"line {x.location['line']}: "
         elif "page" in x.location:
             where = f"page {x.location['page']}: "
+        elif "sheet" in x.location:
+            where = f"{x.location['sheet']}!{x.location.get('cell', '')}: "
         elif "cell" in x.location:
             where = f"cell {x.location['cell']}: "
     message = units(x.message.replace(FINDING_CAUTION, "").strip())
