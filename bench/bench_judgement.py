@@ -177,6 +177,41 @@ def slip_table(count: int, folder: Path, examples: dict[str, Any],
     return lines
 
 
+def servo_table(folder: Path) -> list[str]:
+    """Issue 21: the servo catalogue family of tools/make_servo_fixtures.py (its own generator:
+    2–3 significant digits, R and L terminal to terminal, Kt at 20 °C, standstill point,
+    no-load speed at a stated DC supply), consistent and with each servo slip planted."""
+    sys.path.insert(0, str(Path(__file__).resolve().parent.parent / "tools"))
+    from make_servo_fixtures import MOTORS, planted, record
+
+    sub = folder / "servo-family"
+    sub.mkdir(parents=True, exist_ok=True)
+    for i, motor in enumerate(MOTORS):
+        (sub / f"consistent-{i}.yaml").write_text(yaml.safe_dump(record(motor)), encoding="utf-8")
+    expected: dict[str, tuple[str, str]] = {}
+    for name, (comment, data) in planted().items():
+        (sub / name).write_text(yaml.safe_dump(data, allow_unicode=True), encoding="utf-8")
+        match = re.search(r"on (\S+), (.+)$", comment)
+        if match:
+            keyword = match[2].replace(" rather than rms", "").replace("×", "")
+            expected[name] = (match[1], keyword)
+    results = check_with_sheetlint(sub)
+    out = ["Servo catalogue family (tools/make_servo_fixtures.py): consistent and planted",
+           f"{'file':44} {'loud':>5} {'field':>6} {'cause':>6}"]
+    for name in sorted(results):
+        loud = [f for f in results[name]["findings"] if f["severity"] in ("error", "warning")]
+        if name in expected:
+            field, keyword = expected[name]
+            named = any(field in f["fields"] for f in loud)
+            caused = any(field in (f["cause"] or "") and keyword in (f["cause"] or "")
+                         for f in loud)
+            out.append(f"{name:44} {len(loud):5d} {'yes' if named else 'NO':>6} "
+                       f"{'yes' if caused else 'NO':>6}")
+        else:
+            out.append(f"{name:44} {len(loud):5d} {'(consistent: no loud finding wanted)'}")
+    return out
+
+
 def main(argv: list[str] | None = None) -> int:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("count", nargs="?", type=int, default=200,
@@ -210,6 +245,9 @@ def main(argv: list[str] | None = None) -> int:
                   "kwcause = in a cause")
             print("\n".join(slip_table(args.count, folder, examples, keep=bool(args.keep),
                                         first_seed=args.first_seed)))
+        if args.only is None:
+            print()
+            print("\n".join(servo_table(folder)))
     if args.examples:
         args.examples.write_text(yaml.safe_dump(examples, allow_unicode=True, sort_keys=False,
                                                 width=100), encoding="utf-8")

@@ -39,6 +39,11 @@ NOT_DIAGNOSED = frozenset({"value-range", "unknown-field", "duplicate-key", "sta
 EVIDENCE = frozenset({"power-torque-speed", "synchronous-speed", "pole-count", "electrical-power",
                       "loss-balance", "emf-constant", "voltage-margin", "dq-operating-point",
                       "resistance-drop", "servo-constants", "reactance-band"})
+#: bounds that a corrected value passes trivially count as evidence only for readings of the
+#: fields they are sensitive to beyond scale: the voltage a point needs and the pull-out
+#: margin tell an inductance on the wrong basis (L_d, L_q line-to-line read as phase)
+EVIDENCE_FOR_FIELDS = {"voltage-limit": ("circuit.ld", "circuit.lq"),
+                       "pull-out-margin": ("circuit.ld", "circuit.lq")}
 #: safety findings stay on their own even when a slip would explain them: if the reading is
 #: wrong, the hazard is real (DESIGN.md, Judgement 4: safety checks on the unsafe end)
 SAFETY = frozenset({"overspeed-emf", "short-circuit-current"})
@@ -151,7 +156,8 @@ def explain(sheet: Sheet, given: dict[str, Known], findings: list[Finding],
         if any(name in _givens_of(sheet, f) for f in remaining for name in names):
             continue  # a finding on the same field stays: the reading explains it only in part
         removed = frozenset(k for k in original - after if k[0] not in NOT_DIAGNOSED)
-        if any(k[0] in EVIDENCE for k in removed):
+        if any(k[0] in EVIDENCE or any(n in EVIDENCE_FOR_FIELDS.get(k[0], ()) for n in names)
+               for k in removed):
             explanations.append(_Explanation(slip, removed, names))
     if not explanations:
         return findings
