@@ -157,8 +157,10 @@ class OutputProblem(Exception):
     """The report cannot be written where asked; exit status 2 with the message."""
 
 
-def _check_batch(args: argparse.Namespace) -> tuple[list[Any], str] | int:
-    """Resolve the configuration and check every path; exit status 2 on a bad configuration."""
+def _check_batch(args: argparse.Namespace, render: Any = None, progress: bool = True,
+                 locate_info: bool = True) -> tuple[Any, str] | int:
+    """Resolve the configuration and check every path (an iterator of results, or of
+    ``render``'s parts); exit status 2 on a bad configuration."""
     from sheetlint.batch import check_paths
     from sheetlint.config import ConfigError, resolve, split_rule_list
 
@@ -171,19 +173,24 @@ def _check_batch(args: argparse.Namespace) -> tuple[list[Any], str] | int:
         return 2
     for warning in resolved.warnings:
         print(f"sheetlint: warning: {warning}", file=sys.stderr)
-    # coverage is shown in JSON and with --notes only: spare its cost elsewhere
-    resolved.settings.coverage = (getattr(args, "format", None) == "json"
-                                  or getattr(args, "notes", False))
-    results_iter = check_paths(args.paths, resolved.settings, jobs=args.jobs,
+    import dataclasses
+
+    # coverage is shown in JSON and with --notes only: spare its cost elsewhere; info lines
+    # are looked up only when the report shows infos
+    settings = dataclasses.replace(
+        resolved.settings,
+        coverage=getattr(args, "format", None) == "json" or getattr(args, "notes", False),
+        locate_info=locate_info)
+    results_iter = check_paths(args.paths, settings, jobs=args.jobs,
                                time_limit=args.time_limit, max_bytes=args.max_file_size,
-                               exclude=resolved.exclude)
-    if not args.no_progress:
+                               exclude=resolved.exclude, render=render)
+    if progress and not args.no_progress:
         from sheetlint.progress import file_label, with_progress
 
         results_iter = with_progress(
             results_iter, total=lambda: _count_files(args.paths, resolved.exclude),
             label=file_label)
-    return list(results_iter), resolved.fail_on
+    return results_iter, resolved.fail_on
 
 
 def _count_files(paths: list[str], exclude: tuple[str, ...] = ()) -> int:
@@ -203,27 +210,61 @@ def _report_read_errors(results: list[Any]) -> None:
 
 
 def cmd_check(args: argparse.Namespace) -> int:
-    from sheetlint.batch import exit_status
+    from sheetlint.report import ReportWriter
 
-    outcome = _check_batch(args)
+    if args.format == "json":
+        from sheetlint.report.json_report import JsonReport
+
+        report: Any = JsonReport()
+    elif args.format == "sarif":
+        from sheetlint.report.sarif import SarifReport
+
+        report = SarifReport()
+    else:
+        from sheetlint.report.text_stream import TextReport
+
+        report = TextReport(notes=args.notes, show_derived=args.show_derived)
+    # results stream to the output as files finish; on a terminal they are the progress
+    progress = bool(args.output) or not _is_terminal(sys.stdout)
+    outcome = _check_batch(args, render=report.part, progress=progress,
+                           locate_info=args.format != "text" or args.notes)
     if isinstance(outcome, int):
         return outcome
-    results, fail_on = outcome
-    if args.format == "json":
-        from sheetlint.report import json_report
+    parts, fail_on = outcome
+    # the first part before the output file is opened: the folder walk has then run, so a
+    # new report file inside a checked folder is not read as data while being written
+    import itertools
 
-        _write(json_report.render(results), args.output)
-    elif args.format == "sarif":
-        from sheetlint.report import sarif
+    first = list(itertools.islice(parts, 1))
+    parts = itertools.chain(first, parts)
+    try:
+        stream = open(args.output, "w", encoding="utf-8") if args.output else sys.stdout
+    except OSError as exc:
+        raise OutputProblem(f"cannot write {args.output} ({exc.strerror or exc})") from None
+    try:
+        writer = ReportWriter(report, stream)
+        writer.start()
+        for part in parts:
+            writer.add(part)
+        tally = writer.finish()
+    except OSError as exc:
+        if isinstance(exc, BrokenPipeError):
+            raise
+        raise OutputProblem(f"cannot write {args.output or 'the report'} "
+                            f"({exc.strerror or exc})") from None
+    finally:
+        if stream is not sys.stdout:
+            stream.close()
+    for message in writer.messages:
+        print(f"sheetlint: {message}", file=sys.stderr)
+    return tally.exit_status(fail_on)
 
-        _write(sarif.render(results), args.output)
-    else:
-        from sheetlint.report import text
 
-        _write(text.render(results, notes=args.notes, show_derived=args.show_derived),
-               args.output)
-    _report_read_errors(results)
-    return exit_status(results, fail_on)
+def _is_terminal(stream: Any) -> bool:
+    try:
+        return bool(stream.isatty())
+    except (AttributeError, ValueError, OSError):
+        return False
 
 
 def cmd_report(args: argparse.Namespace) -> int:
@@ -232,7 +273,8 @@ def cmd_report(args: argparse.Namespace) -> int:
     outcome = _check_batch(args)
     if isinstance(outcome, int):
         return outcome
-    results, fail_on = outcome
+    results_iter, fail_on = outcome
+    results = list(results_iter)
     from sheetlint.report import html
 
     _write(html.render(results, title=args.title), args.output)

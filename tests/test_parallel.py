@@ -155,3 +155,236 @@ def test_generator_can_be_abandoned_without_leaving_workers(tmp_path):
     while multiprocessing.active_children() and time.monotonic() < deadline:
         time.sleep(0.05)
     assert not multiprocessing.active_children()
+
+
+# --- streaming reports over a repository of a few hundred files ---------------------------------
+def _repository(root: Path, count: int = 300) -> Path:
+    """Single-record JSON and YAML files of consistent synthetic machines (invented), with
+    planted slips, repeated keys, several-record files and unreadable files among them."""
+    import yaml
+
+    from sheetlint.synth import MachineSpec, record
+
+    folder = root / "repository"
+    bases = [record(MachineSpec(power, speed, poles), f"BASE-{i}")
+             for i, (power, speed, poles) in enumerate(
+                 [(5.5, 1500, 4), (15, 1000, 6), (45, 3000, 8), (90, 750, 10)])]
+    for i in range(count):
+        sub = folder / f"lot-{i // 100}"
+        sub.mkdir(parents=True, exist_ok=True)
+        data = json.loads(json.dumps(bases[i % len(bases)]))
+        data["id"] = f"RP-{i:04d} (invented)"
+        if i % 5 == 1:
+            data["rated"]["torque"] = data["rated"]["torque"].replace(" ", "0 ", 1)
+        if i % 37 == 5:
+            (sub / f"m{i:04d}.json").write_text('{"id": "broken", ', encoding="utf-8")
+        elif i % 41 == 7:
+            text = json.dumps(data, indent=2).replace(
+                '"maker":', '"maker": "Twice Works (invented)",\n  "maker":', 1)
+            (sub / f"m{i:04d}.json").write_text(text, encoding="utf-8")
+        elif i % 43 == 9:
+            (sub / f"m{i:04d}.json").write_text(json.dumps(
+                {"records": [data, {"id": "RP-bad", "rated": {"power": "15 kg"}}]}),
+                encoding="utf-8")
+        elif i % 3 == 0:
+            (sub / f"m{i:04d}.yaml").write_text(yaml.safe_dump(data, sort_keys=False),
+                                                encoding="utf-8")
+        else:
+            (sub / f"m{i:04d}.json").write_text(json.dumps(data, indent=2), encoding="utf-8")
+    return folder
+
+
+def _stream(report: object, paths: list[str], jobs: int) -> tuple[str, int]:
+    import io
+
+    from sheetlint.report import ReportWriter
+
+    buffer = io.StringIO()
+    writer = ReportWriter(report, buffer)  # type: ignore[arg-type]
+    writer.start()
+    for part in check_paths(paths, jobs=jobs, render=report.part):  # type: ignore[attr-defined]
+        writer.add(part)
+    status = writer.finish().exit_status()
+    return buffer.getvalue(), status
+
+
+class _EveryReport:
+    """The parts of the three streaming reports of one file, made in one check."""
+
+    def __init__(self) -> None:
+        from sheetlint.report.json_report import JsonReport
+        from sheetlint.report.sarif import SarifReport
+        from sheetlint.report.text_stream import TextReport
+
+        self.reports = (TextReport(), JsonReport(), SarifReport())
+
+    def part(self, result: FileResult) -> tuple[object, ...]:
+        return tuple(report.part(result) for report in self.reports)
+
+
+def _stream_every_report(paths: list[str], jobs: int) -> list[tuple[str, int]]:
+    import io
+
+    from sheetlint.report import ReportWriter
+
+    every = _EveryReport()
+    buffers = [io.StringIO() for _ in every.reports]
+    writers = [ReportWriter(r, b) for r, b in zip(every.reports, buffers, strict=True)]
+    for parts in check_paths(paths, jobs=jobs, render=every.part):
+        for writer, part in zip(writers, parts, strict=True):
+            writer.add(part)
+    statuses = [writer.finish().exit_status() for writer in writers]
+    return [(b.getvalue(), status) for b, status in zip(buffers, statuses, strict=True)]
+
+
+def test_streamed_reports_of_serial_and_parallel_runs_are_byte_identical(tmp_path):
+    paths = [str(_repository(tmp_path)), str(tmp_path / "missing")]
+    serial = _stream_every_report(paths, jobs=1)
+    workers = _stream_every_report(paths, jobs=2)
+    for (serial_text, status_1), (workers_text, status_2) in zip(serial, workers, strict=True):
+        assert serial_text == workers_text
+        assert status_1 == status_2 == 2
+    assert len(json.loads(workers[1][0])["files"]) == 301  # JSON: one valid document
+    assert len(json.loads(workers[2][0])["runs"][0]["artifacts"]) == 301  # SARIF too
+
+
+def test_streamed_json_is_one_document_with_the_contract_summary(tmp_path):
+    from sheetlint.report.json_report import JsonReport
+
+    folder = _repository(tmp_path, 60)
+    streamed, _ = _stream(JsonReport(), [str(folder)], jobs=1)
+    document = json.loads(streamed)
+    results = list(check_paths([str(folder)], jobs=1))
+    assert document["summary"] == json_report.summary(results)
+    assert document["summary"]["files"] == 60
+    assert document["files"] == json.loads(json_report.render(results))["files"]
+    assert json.loads(_stream(JsonReport(), [], jobs=1)[0])["files"] == []
+
+
+def test_streamed_text_is_the_text_report_with_its_final_newline(tmp_path):
+    from sheetlint.report.text_stream import TextReport
+
+    folder = _mixed_folder(tmp_path, 2)
+    streamed, _ = _stream(TextReport(show_derived=True), [str(folder)], jobs=1)
+    results = list(check_paths([str(folder)], jobs=1))
+    assert streamed == text.render(results, show_derived=True) + "\n"
+
+
+def test_each_file_is_written_as_soon_as_it_is_checked(tmp_path):
+    import io
+
+    from sheetlint.report import ReportWriter
+    from sheetlint.report.json_report import JsonReport
+
+    folder = _repository(tmp_path, 12)
+    report = JsonReport()
+    buffer = io.StringIO()
+    writer = ReportWriter(report, buffer)
+    parts = check_paths([str(folder)], jobs=1, render=report.part)
+    writer.add(next(parts))
+    assert buffer.getvalue().count('{"path": ') == 1  # the other 11 files are not checked yet
+    parts.close()
+
+
+def test_cli_streams_the_same_bytes_with_and_without_workers(tmp_path):
+    folder = _repository(tmp_path, 80)
+    outputs = []
+    for jobs in ("1", "2"):
+        out = tmp_path / f"report-{jobs}.sarif"
+        status = main(["check", "--no-settings", "--format", "sarif", "--jobs", jobs,
+                       "-o", str(out), str(folder)])
+        assert status == 2
+        outputs.append(out.read_bytes())
+    assert outputs[0] == outputs[1]
+
+
+def test_quiet_text_skips_info_lines_yet_prints_the_same_report(tmp_path, capsys):
+    # errors and warnings keep their lines; only the infos, which the default text output
+    # hides (shown with --notes), lose them
+    folder = _repository(tmp_path, 40)
+    status = main(["check", "--no-settings", "--jobs", "1", str(folder)])
+    quiet = capsys.readouterr().out
+    results = list(check_paths([str(folder)], jobs=1))
+    assert quiet == text.render(results) + "\n"
+    assert status == exit_status(results) == 2
+    assert "  line " in quiet  # findings shown with their lines
+
+
+def test_notes_text_streams_the_same_report_with_info_lines_and_coverage(tmp_path, capsys):
+    from sheetlint.engine.core import Settings
+
+    folder = _repository(tmp_path, 40)
+    status = main(["check", "--no-settings", "--notes", "--jobs", "2", str(folder)])
+    shown = capsys.readouterr().out
+    results = list(check_paths([str(folder)], Settings(coverage=True), jobs=1))
+    assert shown == text.render(results, notes=True) + "\n"
+    assert status == exit_status(results) == 2
+    assert "    note " in shown and "coverage: " in shown
+
+
+def test_settings_without_info_lines_leave_other_findings_located(tmp_path):
+    from sheetlint.engine.core import Settings
+
+    folder = _repository(tmp_path, 12)
+    full = list(check_paths([str(folder)], jobs=1))
+    lean = list(check_paths([str(folder)], Settings(locate_info=False), jobs=1))
+    pairs = [(a, b) for f, g in zip(full, lean, strict=True)
+             for r, s in zip(f.records, g.records, strict=True)
+             for a, b in zip(r.findings, s.findings, strict=True)]
+    assert pairs
+    for located, lean_finding in pairs:
+        expected = None if located.severity == "info" else located.location
+        assert lean_finding.location == expected
+
+
+def test_a_walk_of_the_current_folder_names_files_as_before(tmp_path, monkeypatch):
+    # pathlib shows Path(".", "a.json") as "a.json": the walk on strings must name it the same
+    (tmp_path / "sub").mkdir()
+    for name in ("b.json", "a-b.json", "sub/a.yaml"):
+        (tmp_path / name).write_text("{}", encoding="utf-8")
+    monkeypatch.chdir(tmp_path)
+    assert batch.collect_files(["."])[0] == ["a-b.json", "b.json", "sub/a.yaml"]
+    assert batch.collect_files(["./sub/"])[0] == ["sub/a.yaml"]
+
+
+def test_a_new_report_file_inside_the_checked_folder_is_not_read_as_data(tmp_path,
+                                                                          monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    shutil.copy(FIXTURES / "consistent-spm-5k5-dosing-pump.yaml", tmp_path / "m.yaml")
+    status = main(["check", "--no-settings", "--format", "json", "-o", "report.json", "."])
+    document = json.loads((tmp_path / "report.json").read_text(encoding="utf-8"))
+    assert [f["path"] for f in document["files"]] == ["m.yaml"]
+    assert status in (0, 1)
+
+
+def test_the_report_does_not_depend_on_string_hashing(tmp_path):
+    # a worker may hash strings with another seed than the parent (spawn, another machine):
+    # findings grouped under a cause must come out in the same order whatever the seed
+    import subprocess
+    import sys
+
+    outputs = []
+    for seed in ("1", "2"):
+        done = subprocess.run(
+            [sys.executable, "-m", "sheetlint", "check", "--no-settings", "--no-progress",
+             "--format", "json", "--jobs", "1", str(FIXTURES)],
+            capture_output=True, text=True, env={**os.environ, "PYTHONHASHSEED": seed},
+            check=False)
+        assert done.returncode == 1, done.stderr
+        outputs.append(done.stdout)
+    assert '"consequences": ["' in outputs[0]
+    assert outputs[0] == outputs[1]
+
+
+def test_an_info_the_severity_table_lifts_keeps_its_line():
+    # the default text output hides infos and so skips their lines; a rule the settings'
+    # severity table lifts to a warning is shown, so its line is looked up
+    from sheetlint.engine.core import Settings
+
+    lifted = Settings(locate_info=False, severity={"field-weakening-speed": "warning"})
+    result = check_file(str(FIXTURES / "planted-hp-as-kw.yaml"), lifted)
+    findings = [x for r in result.records for x in r.findings]
+    shown = [x for x in findings if x.rule == "field-weakening-speed"]
+    assert shown and shown[0].severity == "warning"
+    assert shown[0].location is not None and "line" in shown[0].location
+    assert all(x.location is None for x in findings if x.severity == "info")

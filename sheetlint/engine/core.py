@@ -199,6 +199,8 @@ class Settings:
     severity: dict[str, str] = field(default_factory=dict)
     #: work out each record's coverage (JSON output, ``--notes``); about 5 % of engine time
     coverage: bool = False
+    #: False when no report of the run shows info findings: their lines are not looked up
+    locate_info: bool = True
 
     def option(self, rule: str, name: str, default: Any) -> Any:
         return self.options.get(rule, _NO_OPTIONS).get(name, default)
@@ -302,7 +304,8 @@ class Sheet:
         act_values = number_entries(actual, actual_text)
         fields = tuple(fields)
         location = None
-        if self.locate is not None:
+        if self.locate is not None and (severity != "info" or self.settings.locate_info
+                                        or relation.rule in self.settings.severity):
             located = self.located
             for f in fields:
                 if f in located:

@@ -180,17 +180,19 @@ def _group(sheet: Sheet, findings: list[Finding], explanations: list[_Explanatio
         # every reading that explains exactly the same findings is named with it
         same = [e for e in explanations if e.removed == best.removed]
         explanations = [e for e in explanations if e.removed != best.removed]
-        primary = _primary(best.slip.field, [by_key[k] for k in removed if k in by_key])
+        # in the findings' order, not the set's: the report must not depend on string hashing
+        # (PYTHONHASHSEED), so that runs, serial or in workers, write the same bytes
+        covered = [f for k, f in by_key.items() if k in removed]
+        primary = _primary(best.slip.field, covered)
         if primary is None:
             continue
         _name_cause(sheet, primary, [e.slip for e in same], best.fields)
-        consequences = [by_key[k] for k in removed if k in by_key and by_key[k] is not primary
-                        and k[0] not in SAFETY]
+        consequences = [f for f in covered if f is not primary and f.rule not in SAFETY]
         primary.consequences = [f"{f.rule}: {f.message}" for f in consequences]
-        for key in removed:
-            if key[0] in SAFETY and key in by_key and by_key[key] is not primary:
-                by_key[key].cause = (f"{primary.cause} (if so, this warning goes too; until the "
-                                     "sheet is corrected it stands)")
+        for f in covered:
+            if f.rule in SAFETY and f is not primary:
+                f.cause = (f"{primary.cause} (if so, this warning goes too; until the "
+                           "sheet is corrected it stands)")
         grouped.update(k for k in removed if k[0] not in SAFETY or by_key.get(k) is primary)
         out_primary[_key(primary)] = primary
     kept = []

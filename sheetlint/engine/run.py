@@ -132,13 +132,16 @@ def check_record(raw: RawRecord, settings: Settings | None = None) -> RecordResu
         message = (validation_message(exc, data) if content_only else
                    schema_message(data) or validation_message(exc, data))
         return RecordResult(label, message, index=raw.index)
-    return run_engine(record, settings, raw.locate if raw.has_locations else None, raw.index)
+    return run_engine(record, settings, raw.locate if raw.has_locations else None, raw.index,
+                      raw.duplicates)
 
 
 def run_engine(record: MachineRecord, settings: Settings | None = None, locate: Any = None,
-               index: int | None = None) -> RecordResult:
+               index: int | None = None, duplicates: tuple[Any, ...] = ()) -> RecordResult:
     settings = settings or Settings()
     sheet, notes = build_sheet(record, settings, locate)
+    if duplicates:  # keys written twice in the file (relations/document.py reports them)
+        sheet.attributes["document.duplicate_keys"] = duplicates
     given = dict(sheet.values)
     attributes = dict(sheet.attributes)
     # every rule is checked and diagnosed, so that a cause reconciles the whole record; rules

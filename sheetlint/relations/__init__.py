@@ -2,6 +2,7 @@
 
 from sheetlint.relations import (  # noqa: F401
     basics,
+    document,
     electrical,
     emf,
     machine,

@@ -1,7 +1,8 @@
 """SARIF 2.1.0 output (``--format sarif``), for code-scanning views. Formats only.
 
-One run; ``tool.driver.rules`` describes every registered rule (documentation from the
-relation's docstring) plus any other rule id that appears in the results. Each finding is a
+One run, written as a stream (:class:`SarifReport`); ``tool.driver.rules`` describes every
+registered rule (documentation from the relation's docstring) and ``unreadable``, plus any
+other rule id that appears in the results. Each finding is a
 result with ``ruleId``, ``level`` (error/warning/note), a message, its location (file URI
 relative to the current directory, ``region.startLine`` when the finding has a line; for a
 PDF a location message and a logical location naming page and cell) and ``properties``
@@ -25,12 +26,14 @@ from sheetlint import __version__
 from sheetlint.batch import FileResult, relative
 from sheetlint.cautions import REPORT_CAUTION as CAUTION
 from sheetlint.engine.core import Finding
+from sheetlint.report import FilePart, Tally, count_part, render_all
 
 SARIF_VERSION = "2.1.0"
 SARIF_SCHEMA = ("https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/"
                 "sarif-schema-2.1.0.json")
 LEVELS = {"error": "error", "warning": "warning", "info": "note"}
 UNREADABLE = "unreadable"
+_encode = json.JSONEncoder(ensure_ascii=False).encode
 
 
 def artifact_uri(path: str) -> str:
@@ -135,22 +138,43 @@ def _fingerprint(*parts: str) -> str:
     return hashlib.sha256("\x1f".join(parts).encode("utf-8")).hexdigest()[:32]
 
 
-def payload(results: list[FileResult]) -> dict[str, Any]:
-    """The SARIF log as a JSON-ready dict."""
-    rules = rule_descriptors()
-    index = {d["id"]: i for i, d in enumerate(rules)}
+def rule_order() -> dict[str, int]:
+    """``ruleIndex`` of each registered rule (sorted ids, as :func:`rule_descriptors` lists
+    them), then ``unreadable``: the same in every process of a run."""
+    from sheetlint.relations.registry import rule_ids
 
-    def rule_index(rule: str) -> int:
-        if rule not in index:
-            index[rule] = len(rules)
-            rules.append(_extra_descriptor(rule))
-        return index[rule]
+    order = {rule: i for i, rule in enumerate(sorted(set(rule_ids())))}
+    order[UNREADABLE] = len(order)
+    return order
 
-    sarif_results: list[dict[str, Any]] = []
-    notifications: list[dict[str, Any]] = []
-    artifacts: list[dict[str, Any]] = []
-    for f in results:
-        artifacts.append({"location": {"uri": artifact_uri(f.path)}})
+
+class SarifReport:
+    """The streaming SARIF log: one run whose ``results`` are written as files finish.
+
+    SARIF's objects are unordered, so the run lists ``results`` first and, in the tail,
+    ``artifacts``, ``invocations`` (with a notification per unreadable file or record),
+    ``tool.driver.rules`` and the rest. A rule id outside the registry gets its descriptor at
+    the end of ``rules`` and no ``ruleIndex`` (which SARIF makes optional).
+    """
+
+    separator = ",\n"
+
+    def __init__(self) -> None:
+        self._order: dict[str, int] | None = None
+
+    def head(self) -> str:
+        return (f'{{"$schema": {_encode(SARIF_SCHEMA)}, "version": {_encode(SARIF_VERSION)}, '
+                '"runs": [{"results": [\n')
+
+    def part(self, result: FileResult) -> FilePart:
+        if self._order is None:
+            self._order = rule_order()
+        order = self._order
+        f = result
+        uri = artifact_uri(f.path)
+        texts: list[str] = []
+        notifications: list[str] = []
+        unlisted: list[str] = []
         problems: list[tuple[str | None, str]] = []
         if f.error:
             problems.append((None, f.error))
@@ -159,14 +183,17 @@ def payload(results: list[FileResult]) -> dict[str, Any]:
                 problems.append((r.id, r.error))
                 continue
             for x in r.findings:
-                result: dict[str, Any] = {
-                    "ruleId": x.rule,
-                    "ruleIndex": rule_index(x.rule),
+                entry: dict[str, Any] = {"ruleId": x.rule}
+                if x.rule in order:
+                    entry["ruleIndex"] = order[x.rule]
+                elif x.rule not in unlisted:
+                    unlisted.append(x.rule)
+                entry.update({
                     "level": LEVELS.get(x.severity, "warning"),
                     "message": {"text": _message(x)},
                     "locations": [_location(f, r.id, x.location, x.fields)],
                     "partialFingerprints": {
-                        "sheetlintFinding/v1": _fingerprint(artifact_uri(f.path), r.id, x.rule,
+                        "sheetlintFinding/v1": _fingerprint(uri, r.id, x.rule,
                                                             ",".join(x.fields))},
                     "properties": {
                         "record": r.id,
@@ -178,44 +205,59 @@ def payload(results: list[FileResult]) -> dict[str, Any]:
                         "cause": x.cause,
                         "source": x.source,
                     },
-                }
+                })
                 if x.accepted is not None:
-                    result["suppressions"] = [{"kind": "inSource", "status": "accepted",
-                                               "justification": x.accepted}]
-                sarif_results.append(result)
+                    entry["suppressions"] = [{"kind": "inSource", "status": "accepted",
+                                              "justification": x.accepted}]
+                texts.append(_encode(entry))
         for record_id, message in problems:
-            sarif_results.append({
+            texts.append(_encode({
                 "ruleId": UNREADABLE,
-                "ruleIndex": rule_index(UNREADABLE),
+                "ruleIndex": order[UNREADABLE],
                 "level": "error",
                 "message": {"text": message},
                 "locations": [_location(f, record_id, None)],
                 "partialFingerprints": {
-                    "sheetlintFinding/v1": _fingerprint(artifact_uri(f.path), record_id or "",
-                                                        UNREADABLE)},
-            })
-            notifications.append({
+                    "sheetlintFinding/v1": _fingerprint(uri, record_id or "", UNREADABLE)},
+            }))
+            notifications.append(_encode({
                 "level": "error",
                 "message": {"text": message},
                 "locations": [_location(f, record_id, None)],
                 "descriptor": {"id": UNREADABLE},
-            })
-    run: dict[str, Any] = {
-        "tool": {"driver": {
-            "name": "sheetlint",
-            "version": __version__,
-            "semanticVersion": __version__,
-            "rules": rules,
-        }},
-        "artifacts": artifacts,
-        "invocations": [{"executionSuccessful": not notifications,
-                         "toolExecutionNotifications": notifications}],
-        "results": sarif_results,
-        "columnKind": "unicodeCodePoints",
-        "properties": {"caution": CAUTION},
-    }
-    return {"$schema": SARIF_SCHEMA, "version": SARIF_VERSION, "runs": [run]}
+            }))
+        return count_part(result, ",\n".join(texts),
+                          extra=(uri, tuple(notifications), tuple(unlisted)))
+
+    def tail(self, tally: Tally, parts_extra: list[Any]) -> str:
+        rules = rule_descriptors()
+        rules.append(_extra_descriptor(UNREADABLE))
+        listed = {d["id"] for d in rules}
+        artifacts: list[str] = []
+        notifications: list[str] = []
+        for uri, file_notifications, unlisted in parts_extra:
+            artifacts.append(_encode({"location": {"uri": uri}}))
+            notifications.extend(file_notifications)
+            for rule in unlisted:
+                if rule not in listed:
+                    listed.add(rule)
+                    rules.append(_extra_descriptor(rule))
+        driver = {"name": "sheetlint", "version": __version__,
+                  "semanticVersion": __version__, "rules": rules}
+        return ("\n],\n"
+                f'"artifacts": [{", ".join(artifacts)}],\n'
+                f'"invocations": [{{"executionSuccessful": {_encode(not notifications)}, '
+                f'"toolExecutionNotifications": [{", ".join(notifications)}]}}],\n'
+                f'"tool": {{"driver": {_encode(driver)}}},\n'
+                f'"columnKind": "unicodeCodePoints", '
+                f'"properties": {{"caution": {_encode(CAUTION)}}}}}]}}\n')
+
+
+def payload(results: list[FileResult]) -> dict[str, Any]:
+    """The SARIF log as a JSON-ready dict."""
+    return json.loads(render(results))
 
 
 def render(results: list[FileResult]) -> str:
-    return json.dumps(payload(results), indent=2, ensure_ascii=False)
+    """The whole log (without its final newline), as the stream writes it."""
+    return render_all(SarifReport(), results)[:-1]

@@ -38,23 +38,34 @@ def _plural(count: int, word: str) -> str:
 def render(results: list[FileResult], notes: bool = False, show_derived: bool = False) -> str:
     lines: list[str] = []
     for f in results:
-        name = relative(f.path)
-        if f.error:
-            lines.append(f"{name}: cannot read: {_without_path(f.error, f.path)}")
-            continue
-        if f.skipped:
-            if notes:
-                lines.append(f"{name}: skipped, {f.skipped}")
-            continue
-        for r in f.records:
-            if r.error:
-                lines.append(f"{name}: cannot read record: {_without_path(r.error, f.path)}")
-                continue
-            lines.extend(_record(name, r, notes, show_derived))
-    s = summary(results)
-    lines.append(_summary_line(s, notes))
-    lines.append(SHORT_CAUTION)
+        lines.extend(file_lines(f, notes, show_derived))
+    lines.extend(tail_lines(summary(results), notes))
     return "\n".join(lines)
+
+
+def file_lines(f: FileResult, notes: bool = False, show_derived: bool = False) -> list[str]:
+    """The lines of one file's results (none for a file with nothing to show).
+
+    The streaming interface: a batch writes each file's lines as the file finishes, then
+    :func:`tail_lines` with the counts of the whole run.
+    """
+    name = relative(f.path)
+    if f.error:
+        return [f"{name}: cannot read: {_without_path(f.error, f.path)}"]
+    if f.skipped:
+        return [f"{name}: skipped, {f.skipped}"] if notes else []
+    lines: list[str] = []
+    for r in f.records:
+        if r.error:
+            lines.append(f"{name}: cannot read record: {_without_path(r.error, f.path)}")
+            continue
+        lines.extend(_record(name, r, notes, show_derived))
+    return lines
+
+
+def tail_lines(counts: dict[str, int], notes: bool = False) -> list[str]:
+    """The summary line and the one cautions line that end a run's report."""
+    return [_summary_line(counts, notes), SHORT_CAUTION]
 
 
 def _without_path(message: str, path: str) -> str:
