@@ -43,8 +43,11 @@ from tools.realistic_catalogue import (
 
 CONSISTENT_SAMPLE = [(c, s) for c in CONVENTIONS for s in range(3)]
 SLIP_SAMPLE = [(s.name, seed) for s in SLIPS for seed in range(2)]
-REBUILDING = pytest.mark.xfail(reason="issue 15: judgement being rebuilt", strict=False)
-DIAGNOSIS = pytest.mark.xfail(reason="issue 16: diagnosis being rebuilt", strict=False)
+#: known misses, strict: a case that starts to pass fails the suite until its mark is removed
+REBUILDING = pytest.mark.xfail(reason="known miss (issue 15): the sheet does not over-determine "
+                               "the corrupted field enough to see the slip", strict=True)
+DIAGNOSIS = pytest.mark.xfail(reason="known miss (issue 16): no cause named for this slip",
+                              strict=True)
 
 
 # ------------------------------------------------------------------------------------------
@@ -295,9 +298,7 @@ FLAG_FAILING_TODAY = {
     ("kt_per_peak_ampere", 0), ("r_line_phase", 1), ("l_line_phase", 0), ("l_line_phase", 1)}
 #: (slip, seed) pairs whose slip keyword no cause names today
 KEYWORD_FAILING_TODAY = {
-    ("uh_mh", 0), ("uh_mh", 1), ("kt_per_peak_ampere", 0),
-    ("r_line_phase", 1), ("l_line_phase", 0), ("l_line_phase", 1),
-    ("efficiency_digits", 0), ("efficiency_digits", 1)}
+    ("kt_per_peak_ampere", 0), ("r_line_phase", 1), ("l_line_phase", 0), ("l_line_phase", 1)}
 
 
 def _names(field_name: str, corrupted: tuple[str, ...]) -> bool:
