@@ -19,24 +19,13 @@ import itertools
 import math
 from dataclasses import dataclass
 
+from sheetlint.engine.build import BASIS_FACTOR
 from sheetlint.engine.core import Known, Sheet
 from sheetlint.fields import BASES, spec_for
 
 SQRT2 = math.sqrt(2.0)
 SQRT3 = math.sqrt(3.0)
 HP_W = 745.69987158227022  # W per hp (550 ft·lbf/s), NIST SP 811 (2008), App. B
-
-#: value in a basis × factor = value in the engine's canonical basis (DESIGN.md, Bases)
-BASIS_FACTOR: dict[str, dict[str, float]] = {
-    "voltage": {"line_rms": 1.0, "line_peak": 1 / SQRT2, "phase_rms": SQRT3,
-                "phase_peak": SQRT3 / SQRT2},
-    "emf_constant": {"line_rms": 1.0, "line_peak": 1 / SQRT2, "phase_rms": SQRT3,
-                     "phase_peak": SQRT3 / SQRT2},
-    "current": {"rms": 1.0, "peak": 1 / SQRT2},
-    "torque_constant": {"rms": 1.0, "peak": SQRT2},
-    "resistance": {"phase": 1.0, "line": 0.5, "delta_branch": 1 / 3},
-    "inductance": {"phase": 1.0, "line": 0.5},
-}
 
 #: how each basis is said in a cause
 BASIS_WORDS: dict[str, dict[str, str]] = {

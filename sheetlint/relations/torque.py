@@ -17,7 +17,6 @@ from collections.abc import Iterator
 
 from sheetlint.engine.core import Derivation, Finding, Sheet
 from sheetlint.engine.monomial import Evaluation, Monomial
-from sheetlint.physics.magnets import remanence_factor
 from sheetlint.relations.emf import magnet_factor, magnet_interval, to_room_factor
 from sheetlint.relations.registry import register
 from sheetlint.units import ROOM_TEMPERATURE as ROOM
@@ -267,8 +266,30 @@ class TorquePerAmpere(_TorquePerAmpere):
         return "rated torque per ampere and the torque constant disagree"
 
 
+class _BandAgainstKt(_TorquePerAmpere):
+    """A torque per ampere within ``kt_band`` of a stated Kt; against √3·Ke at 20 °C the low
+    end also admits hot magnets; against a Kt of unstated definition (it may be a hot T/I) the
+    high end rises by as much as that reading lowers Kt."""
+
+    kt_band: tuple[float, float] = (1.0, 1.0)
+
+    def band(self, sheet: Sheet) -> tuple[float, float]:
+        low, high = self.kt_band
+        if self.reference(sheet) == "torque_constant":
+            return low, high
+        _, hottest, _ = magnet_interval(sheet)
+        return low * min(1.0, magnet_factor(sheet, ROOM, hottest)), high
+
+    def allowed(self, sheet: Sheet) -> tuple[float, float]:
+        low, high = self.band(sheet)
+        if self.reference(sheet) == "torque_constant" and kt_stated_temperature(sheet) is None:
+            k_low, _, _ = kt_reading_interval(sheet)
+            return _log_interval(low, high / min(1.0, k_low))
+        return _log_interval(low, high)
+
+
 @register
-class StandstillTorquePerAmpere(_TorquePerAmpere):
+class StandstillTorquePerAmpere(_BandAgainstKt):
     """Standstill (0 rpm) torque per ampere is the torque constant.
 
     .. math:: T_0/I_0 = K_t \\pm 5\\,\\%
@@ -289,6 +310,7 @@ class StandstillTorquePerAmpere(_TorquePerAmpere):
     severity_policy = "model band ±5 % of Kt"
     order = 23
     per_point = True
+    kt_band = STANDSTILL_TORQUE_PER_AMPERE
 
     def variants(self, sheet: Sheet) -> list[Monomial]:
         out: list[Monomial] = []
@@ -301,26 +323,12 @@ class StandstillTorquePerAmpere(_TorquePerAmpere):
                 out.append(variant)
         return out
 
-    def band(self, sheet: Sheet) -> tuple[float, float]:
-        low, high = STANDSTILL_TORQUE_PER_AMPERE
-        if self.reference(sheet) == "torque_constant":
-            return low, high
-        _, hottest, _ = magnet_interval(sheet)
-        return low * min(1.0, magnet_factor(sheet, ROOM, hottest)), high
-
-    def allowed(self, sheet: Sheet) -> tuple[float, float]:
-        low, high = self.band(sheet)
-        if self.reference(sheet) == "torque_constant" and kt_stated_temperature(sheet) is None:
-            _, k_high, _ = kt_reading_interval(sheet)
-            return _log_interval(low, high * max(1.0, k_high) / min(1.0, k_high))
-        return _log_interval(low, high)
-
     def describe(self, sheet: Sheet, evaluation: Evaluation) -> str:
         return "standstill torque per ampere and the torque constant disagree"
 
 
 @register
-class PeakTorquePerAmpere(_TorquePerAmpere):
+class PeakTorquePerAmpere(_BandAgainstKt):
     """Peak torque per peak current lies a little under the torque constant.
 
     .. math:: 0.75 \\le \\frac{T_{peak}/I_{peak}}{K_t} \\le 1.0
@@ -342,32 +350,7 @@ class PeakTorquePerAmpere(_TorquePerAmpere):
     current_field = "limits.peak_current"
     severity_policy = "model band 0.75–1.0 of Kt (saturation)"
     order = 23
-
-    def band(self, sheet: Sheet) -> tuple[float, float]:
-        low, high = PEAK_TORQUE_PER_AMPERE
-        if self.reference(sheet) == "torque_constant":
-            return low, high
-        _, hottest, _ = magnet_interval(sheet)
-        return low * min(1.0, magnet_factor(sheet, ROOM, hottest)), high
-
-    def allowed(self, sheet: Sheet) -> tuple[float, float]:
-        low, high = self.band(sheet)
-        if self.reference(sheet) == "torque_constant" and kt_stated_temperature(sheet) is None:
-            # Kt may be a hot T/I: the cold peak point may then lie above it
-            k_low, _, _ = kt_reading_interval(sheet)
-            return _log_interval(low, high / min(1.0, k_low))
-        return _log_interval(low, high)
+    kt_band = PEAK_TORQUE_PER_AMPERE
 
     def describe(self, sheet: Sheet, evaluation: Evaluation) -> str:
         return "peak torque per peak current and the torque constant disagree"
-
-
-def kt_from_ke_hot(sheet: Sheet) -> float | None:
-    """√3·Ke at the rated magnet temperature (for the dq model's cross-checks)."""
-    ke = sheet.get("emf.constant")
-    hot = sheet.get("rated.magnet_temperature")
-    if ke is None or hot is None:
-        return None
-    return SQRT3 * ke.value * remanence_factor(sheet.attr("machine.magnet"),
-                                               ke.temperature or ROOM, hot.value,
-                                               sheet.option("magnet-temperature", "alpha", None))
