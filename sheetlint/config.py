@@ -344,8 +344,10 @@ def _fits(spec: RuleOption, value: OptionValue) -> bool:
 
     if spec.kind == "number":
         return number(value)
-    return (isinstance(value, tuple) and len(value) == 2 and number(value[0])
-            and number(value[1]) and value[0] <= value[1])  # type: ignore[operator]
+    if not (isinstance(value, tuple) and len(value) == 2):
+        return False
+    low, high = value
+    return isinstance(low, float) and isinstance(high, float) and low <= high
 
 
 def _refuse_unknown_rules(file_config: FileConfig, cli_only: frozenset[str] | None,
