@@ -16,6 +16,7 @@ from __future__ import annotations
 import math
 from collections.abc import Callable
 from dataclasses import dataclass
+from typing import Any
 
 from sheetlint.engine.causes import Slip, readings
 from sheetlint.engine.core import (
@@ -109,6 +110,21 @@ def _given_fields(sheet: Sheet, name: str, out: dict[str, None], depth: int = 0)
         _given_fields(sheet, source, out, depth + 1)
 
 
+def _may_reconcile(evaluations: Any, names: tuple[str, ...], slip: Slip) -> bool:
+    """A quick screen before a re-check: the products of powers that involve the corrected
+    fields must all pass after the correction (their residuals move by c·ln(factor) exactly).
+    A reading that leaves one failing, or breaks one that passed, cannot be the cause."""
+    shift = math.log(slip.factor)
+    for evaluation in evaluations:
+        coefficients = evaluation.coefficients or {}
+        c = sum(coefficients.get(name, 0.0) for name in names)
+        if abs(c) < 1e-9:
+            continue
+        if evaluation.miss(evaluation.residual - c * shift) > 0:
+            return False
+    return True
+
+
 def _givens_of(sheet: Sheet, finding: Finding) -> dict[str, None]:
     out: dict[str, None] = {}
     for name in finding.fields:
@@ -137,9 +153,15 @@ def explain(sheet: Sheet, given: dict[str, Known], findings: list[Finding],
             _given_fields(sheet, name, fields)
     explanations: list[_Explanation] = []
     budget = MOST_RECHECKS
-    for names, slip in _candidates(sheet, given, fields):
-        if budget <= 0:
+    diagnosable = frozenset(k for k in original if k[0] not in NOT_DIAGNOSED)
+    # the more usual slips first; once a reading explains every finding, a less usual one
+    # could only be named beside it, so the search ends with that rank
+    enough_at: int | None = None
+    for names, slip in sorted(_candidates(sheet, given, fields), key=lambda c: c[1].rank):
+        if budget <= 0 or (enough_at is not None and slip.rank > enough_at):
             break
+        if not _may_reconcile(sheet.memo.get("evaluations", ()), names, slip):
+            continue
         budget -= 1
         values = dict(given)
         for name in names:
@@ -159,6 +181,8 @@ def explain(sheet: Sheet, given: dict[str, Known], findings: list[Finding],
         if any(k[0] in EVIDENCE or any(n in EVIDENCE_FOR_FIELDS.get(k[0], ()) for n in names)
                for k in removed):
             explanations.append(_Explanation(slip, removed, names))
+            if removed == diagnosable:
+                enough_at = slip.rank
     if not explanations:
         return findings
     return _group(sheet, findings, explanations, shown)

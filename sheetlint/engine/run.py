@@ -181,6 +181,8 @@ def check_sheet(sheet: Sheet, settings: Settings) -> list[Finding]:
         check_relation(relation, sheet, findings, evaluations)
     findings.extend(e.finding for e in evaluations if e.finding is not None)
     findings.extend(sheet.findings)
+    if any(f.severity != "info" for f in findings):
+        sheet.memo["evaluations"] = evaluations  # for the diagnosis's quick screen
     return findings
 
 
