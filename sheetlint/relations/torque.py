@@ -49,13 +49,24 @@ KT_SOURCE = ("power balance T·ω = √3·E_LL·I of the sinusoidal PM machine w
 
 
 def rated_band(sheet: Sheet) -> tuple[float, float]:
-    """Rated T/I over Kt20 on consistent sheets, by topology (the wider band when unstated)."""
+    """Rated T/I over Kt20 on consistent sheets, by topology (the wider band when unstated).
+
+    A small machine's loss torque may take more than the band's 1–5 %: its low end also admits
+    the hot magnets less every loss the sheet's efficiency leaves room for, (1 − η)/η of the
+    output (all losses taken as loss torque: the bound a power balance allows)."""
     topology = sheet.attr("machine.topology")
     if topology == "spm":
-        return RATED_TORQUE_PER_AMPERE_SPM
-    if topology == "pmasynrm":
-        return RATED_TORQUE_PER_AMPERE_PMASYNRM
-    return RATED_TORQUE_PER_AMPERE_IPM  # ipm, and a sheet that does not state its topology
+        low, high = RATED_TORQUE_PER_AMPERE_SPM
+    elif topology == "pmasynrm":
+        low, high = RATED_TORQUE_PER_AMPERE_PMASYNRM
+    else:  # ipm, and a sheet that does not state its topology
+        low, high = RATED_TORQUE_PER_AMPERE_IPM
+    efficiency = sheet.get("rated.efficiency")
+    if efficiency is not None and 0.5 < efficiency.value < 1.0:
+        _, hottest, _ = magnet_interval(sheet)
+        losses = (1.0 - efficiency.value) / efficiency.value
+        low = min(low, magnet_factor(sheet, ROOM, hottest) * (1.0 - losses))
+    return low, high
 
 
 def kt_stated_temperature(sheet: Sheet) -> float | None:
