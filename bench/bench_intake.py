@@ -14,7 +14,6 @@ Targets of issue 18: records found >= 95 %, field recall >= 95 %, precision >= 9
 from __future__ import annotations
 
 import argparse
-import importlib.util
 import json
 import sys
 import tempfile
@@ -27,16 +26,7 @@ sys.path.insert(0, str(ROOT))
 
 from sheetlint.fields import ATTRIBUTE_FIELDS, FIELDS  # noqa: E402
 from sheetlint.units import UnitProblem, read_value  # noqa: E402
-
-
-def load_corpus_tool() -> Any:
-    spec = importlib.util.spec_from_file_location("make_layout_corpus",
-                                                  ROOT / "tools" / "make_layout_corpus.py")
-    assert spec is not None and spec.loader is not None
-    module = importlib.util.module_from_spec(spec)
-    sys.modules[spec.name] = module
-    spec.loader.exec_module(module)
-    return module
+from tools import make_layout_corpus  # noqa: E402
 
 
 def flatten(data: dict[str, Any], prefix: str = "") -> dict[str, Any]:
@@ -141,7 +131,7 @@ def main() -> None:
     parser.add_argument("--seeds", default="",
                         help="comma-separated seeds of varied corpora (default: the fixed one)")
     args = parser.parse_args()
-    tool = load_corpus_tool()
+
     kinds = args.kinds.split(",")
     totals = {kind: {"records": 0, "found": 0, "expected": 0, "extracted": 0, "right": 0}
               for kind in kinds}
@@ -149,7 +139,7 @@ def main() -> None:
     for seed in seeds:
         if seed is not None:
             print(f"\ncorpus drawn with seed {seed} (varied order, units, separators, fonts)")
-        run_corpus(tool, seed, args, kinds, totals)
+        run_corpus(seed, args, kinds, totals)
     print()
     for kind, t in totals.items():
         print(f"all layouts, {kind:5}: records found {percent(t['found'], t['records'])} %, "
@@ -157,13 +147,13 @@ def main() -> None:
               f"{percent(t['right'], t['extracted'])} %  (targets 95 / 95 / 99)")
 
 
-def run_corpus(tool: Any, seed: int | None, args: argparse.Namespace, kinds: list[str],
+def run_corpus(seed: int | None, args: argparse.Namespace, kinds: list[str],
                totals: dict[str, dict[str, int]]) -> None:
     with tempfile.TemporaryDirectory() as folder:
         if seed is None:
-            names = tool.build(Path(folder), args.booklet_pages)
+            names = make_layout_corpus.build(Path(folder), args.booklet_pages)
         else:
-            names = tool.build(Path(folder), args.booklet_pages, seed, True)
+            names = make_layout_corpus.build(Path(folder), args.booklet_pages, seed, True)
         print(f"{'layout':30} {'kind':5} {'records':>9} {'found%':>7} {'recall%':>8} "
               f"{'precision%':>10} {'pages':>7} {'s':>6}")
         for name in names:

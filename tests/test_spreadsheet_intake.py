@@ -11,7 +11,6 @@ from __future__ import annotations
 import importlib.util
 import json
 import shutil
-import sys
 import time
 import zipfile
 from pathlib import Path
@@ -26,6 +25,7 @@ from sheetlint.intake.spreadsheet import (
     shown_text,
     sniff_delimiter,
 )
+from tools import make_layout_corpus
 
 ROOT = Path(__file__).resolve().parent.parent
 
@@ -195,16 +195,6 @@ def test_a_workbook_with_a_million_formatted_rows_is_read_in_bounded_time(
 # --------------------------------------------------------------------------- layouts
 
 
-def corpus_tool() -> Any:
-    spec = importlib.util.spec_from_file_location("make_layout_corpus",
-                                                  ROOT / "tools" / "make_layout_corpus.py")
-    assert spec is not None and spec.loader is not None
-    module = importlib.util.module_from_spec(spec)
-    sys.modules[spec.name] = module
-    spec.loader.exec_module(module)
-    return module
-
-
 def bench_module() -> Any:
     spec = importlib.util.spec_from_file_location("bench_intake",
                                                   ROOT / "bench" / "bench_intake.py")
@@ -219,7 +209,7 @@ def corpus(tmp_path_factory: pytest.TempPathFactory) -> Path:
     pytest.importorskip("fpdf")
     pytest.importorskip("openpyxl")
     folder = tmp_path_factory.mktemp("corpus")
-    corpus_tool().build(folder, booklet_pages=6)
+    make_layout_corpus.build(folder, booklet_pages=6)
     return folder
 
 
