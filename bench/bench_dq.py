@@ -18,9 +18,9 @@ from sheetlint.relations.machine import (
     FieldWeakeningSpeed,
     OverspeedEmf,
     PullOutMargin,
-    ShortCircuitCurrent,
     VoltageLimitRelation,
 )
+from sheetlint.relations.servo import ShortCircuitCurrent
 
 RELATIONS = (DqOperatingPoint(), VoltageLimitRelation(), FieldWeakeningSpeed(), OverspeedEmf(),
              PullOutMargin(), ShortCircuitCurrent())

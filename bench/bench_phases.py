@@ -23,7 +23,7 @@ from bench_engine import make_records  # the same records (this script's folder 
 
 from sheetlint.engine import run as engine
 from sheetlint.engine.build import build_sheet
-from sheetlint.engine.core import SEVERITY_RANK, Settings
+from sheetlint.engine.core import SEVERITY_RANK, Settings, Sheet
 from sheetlint.intake.records import RawRecord
 from sheetlint.model import MachineRecord
 from sheetlint.relations.registry import all_relations
@@ -42,6 +42,7 @@ def main() -> None:
         record = MachineRecord.model_validate(data)
         t1 = clock()
         sheet, notes = build_sheet(record, Settings())
+        given, attributes = dict(sheet.values), dict(sheet.attributes)
         t2 = clock()
         findings = list(notes)
         for relation in relations:
@@ -61,7 +62,15 @@ def main() -> None:
             engine.check_relation(relation, sheet, findings, evaluations)
             spent[f"check {relation.rule}"] += clock() - start
         t5 = clock()
-        findings.extend(engine._explain_failures(sheet, evaluations))
+        findings.extend(e.finding for e in evaluations if e.finding is not None)
+
+        def recheck(values: dict, record_id: str = record.id, attributes: dict = attributes
+                    ) -> list:
+            settings = Settings()
+            return engine.check_sheet(Sheet(record_id, values, dict(attributes), settings),
+                                      settings)
+
+        findings = engine.explain(sheet, given, findings, recheck)
         t6 = clock()
         engine._estimate(sheet, relations)
         findings.sort(key=lambda f: (-SEVERITY_RANK[f.severity], f.rule, f.fields))

@@ -278,7 +278,7 @@ class VoltageMargin(Relation):
                 yield sheet.finding(self, "warning", f"{text}: far above the usual "
                                     f"{low:.0%}–{high:.0%} (common practice); a basis slip in Ke "
                                     "or the supply voltage listed as rated voltage", fields)
-        elif margin_high < warn_low or margin_low > warn_high:
+        elif margin_high < warn_low:
             yield sheet.finding(self, "warning", text, fields)
         elif margin_high < low or margin_low > high:
             yield sheet.finding(self, "info", text + f"; the usual margin is "
